@@ -1,0 +1,64 @@
+// SPDX-License-Identifier: GPL-3.0-or-later
+#pragma once
+/// \file
+/// Plain geometry types that cross every module boundary. No CGAL here, ever.
+
+#include <array>
+#include <cstdint>
+#include <vector>
+
+namespace trimwright::kernel {
+
+/// A 2D point or vector, mm.
+using Vec2 = std::array<double, 2>;
+/// A 3D point or vector, mm.
+using Vec3 = std::array<double, 3>;
+
+/// A closed polygonal ring (the last point is not repeated), mm.
+struct Ring {
+  std::vector<Vec2> points;
+};
+
+/// One connected polygonal region: outer ring counter-clockwise, holes clockwise.
+struct Region {
+  Ring outer;
+  std::vector<Ring> holes;
+};
+
+/// An indexed triangle mesh in mm. Triangles are counter-clockwise seen from outside
+/// (outward normals by the right-hand rule).
+struct Mesh {
+  std::vector<Vec3> vertices;
+  std::vector<std::array<std::uint32_t, 3>> triangles;
+};
+
+/// Axis-aligned bounding box, mm.
+struct Box3 {
+  Vec3 min{0, 0, 0};
+  Vec3 max{0, 0, 0};
+};
+
+/// Bounding box of a mesh's vertices (all zero for an empty mesh).
+Box3 bounding_box(const Mesh& mesh);
+
+/// A rigid transform: p' = rotation · p + translation (rotation row-major, orthonormal).
+struct Transform3 {
+  std::array<std::array<double, 3>, 3> rotation{{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}};
+  Vec3 translation{0, 0, 0};
+  /// Rotation by angle_deg about +z (counter-clockwise seen from +z).
+  static Transform3 rotate_z(double angle_deg);
+  /// Pure translation.
+  static Transform3 translate(const Vec3& t);
+  /// This transform applied after `first`.
+  Transform3 after(const Transform3& first) const;
+  /// Apply to a point.
+  Vec3 apply(const Vec3& p) const;
+};
+
+/// The mesh with every vertex transformed (a proper rotation keeps triangle orientation).
+Mesh transformed(const Mesh& mesh, const Transform3& t);
+
+/// The two meshes as one (disjoint components; indices of `b` shifted).
+Mesh merged(const Mesh& a, const Mesh& b);
+
+}  // namespace trimwright::kernel

@@ -1,0 +1,4 @@
+// SPDX-License-Identifier: GPL-3.0-or-later
+// Catch2's main, compiled once for every test executable.
+#define CATCH_CONFIG_MAIN
+#include <catch2/catch.hpp>
