@@ -9,6 +9,9 @@ packages=(
   # libraries
   libcgal-dev libeigen3-dev libcli11-dev libtomlplusplus-dev nlohmann-json3-dev
   libcairo2-dev libfmt-dev libzip-dev zlib1g-dev fonts-dejavu-core
+  # libzip-dev's CMake package names the zipcmp/zipmerge/ziptool programs; without them
+  # find_package(libzip) fails (Debian 12 ships them as separate packages)
+  zipcmp zipmerge ziptool
   # tests: an independent 3MF reader, an independent STL reader, PDF tools, NumPy reference
   catch2 lib3mf-dev admesh poppler-utils python3 python3-numpy
   # benchmarks, fuzzing and sanitizers
