@@ -2,11 +2,17 @@
 #include "cli/commands/registry.hpp"
 
 // One include and one list entry per command.
+#include "cli/commands/design.hpp"
+#include "cli/commands/info.hpp"
 
 namespace trimwright::cli {
 
 const std::vector<AddCommand>& all_commands() {
   static const std::vector<AddCommand> commands = {
+      &add_demo_command,
+      &add_design_command,
+      &add_init_command,
+      &add_materials_command,
   };
   return commands;
 }
