@@ -75,6 +75,7 @@ fixture::Request make_request(const Job& job, const Correction& corr,
   r.margin = job.fixture.margin;
   r.inserts = job.fixture.inserts;
   r.weighed_g = options.weighed_g;
+  r.source = job.source;
   return r;
 }
 

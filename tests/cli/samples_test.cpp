@@ -1,0 +1,136 @@
+// SPDX-License-Identifier: GPL-3.0-or-later
+// Every sample job runs through the real binary, and its setting, applied to the mesh as
+// written, reproduces the requested correction.
+#include <catch2/catch.hpp>
+
+#include <nlohmann/json.hpp>
+
+#include <cmath>
+#include <filesystem>
+#include <regex>
+
+#include "tests/support/run_cli.hpp"
+#include "tests/support/stl_mass.hpp"
+
+namespace fs = std::filesystem;
+using nlohmann::json;
+using namespace trimwright::test;
+
+namespace {
+
+std::vector<fs::path> sample_jobs() {
+  std::vector<fs::path> files;
+  for (const auto& e : fs::directory_iterator(fs::path(TRIMWRIGHT_SOURCE_DIR) / "samples"))
+    if (e.path().extension() == ".toml") files.push_back(e.path());
+  std::sort(files.begin(), files.end());
+  return files;
+}
+
+// admesh (Debian package `admesh`) as an independent STL checker. It repairs by default and
+// always exits 0, so read the "Original" column of its report with -e -d -v; it was seen to hang
+// on some inputs, hence the timeout.
+struct AdmeshReport {
+  bool ran = false;
+  long disconnected = -1;
+  long backwards = -1;
+  double volume = 0;
+};
+
+AdmeshReport admesh(const fs::path& stl) {
+  AdmeshReport r;
+  fs::path log = stl;
+  log += ".admesh.txt";
+  std::string cmd = "timeout 30 admesh -e -d -v " + shell_quote(stl.string()) + " >" +
+                    shell_quote(log.string()) + " 2>&1";
+  if (std::system(cmd.c_str()) != 0) return r;
+  std::string text = slurp(log);
+  std::smatch m;
+  if (std::regex_search(text, m, std::regex(R"(Total disconnected facets\s*:\s*(\d+))"))) r.disconnected = std::stol(m[1]);
+  if (std::regex_search(text, m, std::regex(R"(Backwards edges\s*:\s*(\d+))"))) r.backwards = std::stol(m[1]);
+  if (std::regex_search(text, m, std::regex(R"(Volume\s*:\s*([0-9.eE+-]+))"))) r.volume = std::stod(m[1]);
+  r.ran = r.disconnected >= 0;
+  return r;
+}
+
+}  // namespace
+
+TEST_CASE("samples: every sample designs, writes its outputs and reproduces its correction", "[cli][samples]") {
+  auto jobs = sample_jobs();
+  REQUIRE(jobs.size() >= 4);
+  for (const auto& job : jobs) {
+    INFO("sample: " << job.filename().string());
+    fs::path out = scratch_dir("sample-" + job.stem().string());
+    auto r = run_cli("design " + shell_quote(job.string()) + " --out " + shell_quote(out.string()));
+    INFO("stderr: " << r.err << "\nstdout: " << r.out);
+    REQUIRE(r.exit_code == 0);
+    REQUIRE(fs::exists(out / "report.json"));
+    json rep = json::parse(slurp(out / "report.json"));
+    double need = rep["correction"]["unbalance_gmm"].get<double>();
+    double angle = rep["correction"]["angle_deg"].get<double>();
+    double resolution = rep["fixture"]["resolution_gmm"].get<double>();
+    REQUIRE(rep["fixture"]["family"] == "slide-disc");
+    for (const auto& part : rep["fixture"]["parts"]) {
+      fs::path stl = out / part["file"].get<std::string>();
+      REQUIRE(fs::exists(stl));
+      StlMass sm = stl_mass(slurp(stl));
+      double density = part["density_g_cm3"].get<double>();
+      double mass = sm.volume_mm3 * density * 1e-3;
+      double offset = sm.centroid_mm[0] - rep["setting"]["spindle_x_mm"].get<double>();
+      double achieved = mass * offset;
+      // Within 0.5 % or one setting step (issue 2's acceptance rule).
+      CHECK(std::fabs(achieved - need) <= std::max(0.005 * need, resolution));
+      CHECK(std::fabs(sm.centroid_mm[1]) < 0.01);  // heavy side on +x, on the slot axis
+      CHECK(rep["setting"]["angle_deg"].get<double>() == Approx(angle));
+      CHECK(offset == Approx(rep["setting"]["offset_mm"].get<double>()).epsilon(0.002));
+      CHECK(mass == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+      // The full range covers the need with the margin and includes zero.
+      CHECK(rep["fixture"]["range_gmm"][0].get<double>() == 0);
+      CHECK(rep["fixture"]["range_gmm"][1].get<double>() >= need);
+      AdmeshReport a = admesh(stl);
+      REQUIRE(a.ran);
+      CHECK(a.disconnected == 0);
+      CHECK(a.backwards == 0);
+      CHECK(a.volume == Approx(sm.volume_mm3).epsilon(1e-5));  // admesh sums in float
+    }
+    for (const char* f : {"chart.csv", "report.json"}) CHECK(fs::exists(out / f));
+  }
+}
+
+TEST_CASE("demo: writes the STL, chart.csv and report.json and prints the setting", "[cli][samples]") {
+  fs::path out = scratch_dir("demo") / "d";
+  auto r = run_cli("demo --out " + shell_quote(out.string()));
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  CHECK(r.out.find("SETTING") != std::string::npos);
+  CHECK(r.out.find("cautions") != std::string::npos);
+  CHECK(fs::exists(out / "chart.csv"));
+  CHECK(fs::exists(out / "report.json"));
+  bool stl = false;
+  for (const auto& e : fs::directory_iterator(out)) stl = stl || e.path().extension() == ".stl";
+  CHECK(stl);
+  // No temporary or hidden file is left behind.
+  for (const auto& e : fs::directory_iterator(out)) CHECK(e.path().filename().string()[0] != '.');
+}
+
+TEST_CASE("cli: --version, --help and a bad command line", "[cli]") {
+  auto v = run_cli("--version");
+  CHECK(v.exit_code == 0);
+  CHECK(v.out.find("trimwright") != std::string::npos);
+  CHECK(run_cli("--help").exit_code == 0);
+  CHECK(run_cli("design").exit_code == 2);
+  CHECK(run_cli("frobnicate").exit_code == 2);
+  auto missing = run_cli("design /nonexistent/job.toml");
+  CHECK(missing.exit_code == 3);
+  CHECK(missing.err.find("/nonexistent/job.toml") != std::string::npos);
+}
+
+TEST_CASE("cli: init writes a template that designs as it is", "[cli]") {
+  fs::path dir = scratch_dir("init");
+  fs::path job = dir / "job.toml";
+  REQUIRE(run_cli("init " + shell_quote(job.string())).exit_code == 0);
+  CHECK(run_cli("init " + shell_quote(job.string())).exit_code == 2);  // no silent overwrite
+  auto r = run_cli("design " + shell_quote(job.string()) + " --out " + shell_quote((dir / "o").string()));
+  INFO(r.err);
+  CHECK(r.exit_code == 0);
+  CHECK(run_cli("materials").exit_code == 0);
+}
