@@ -20,6 +20,11 @@ enum class PhaseSense { kLag, kLead };
 /// Which way weight angles count on the rotor, from its reference mark.
 enum class AngleSense { kAgainstRotation, kWithRotation };
 
+/// Index method: what the phase reference is fixed to. With the reference on the adapter (or
+/// spindle), turning the rotor on the adapter turns the rotor's share of the reading; with the
+/// reference on the rotor, it turns the adapter's share.
+enum class IndexReference { kAdapter, kRotor };
+
 /// A weight on the rotor during a run, beyond its original state.
 struct TrialWeight {
   int plane = 1;           ///< correction plane, 1-based
@@ -61,6 +66,17 @@ struct Readings {
   std::string influence_file;        ///< a saved influence-coefficient file to reuse (empty = none)
   std::string save_influence;        ///< where to save fitted coefficients (empty = don't)
   std::string source;                ///< the job file, for messages
+  /// The weights of the last run stay on the rotor: corrections are then what to add on top of
+  /// them, and SolveResult::combined gives the weights and the addition as one (false = every
+  /// weight listed in the runs is removed before correcting).
+  bool keep_trial = false;
+  /// Number of correction planes for `fit` (0 = the highest plane any run names); a run naming a
+  /// higher plane is an error.
+  int planes = 0;
+  /// Where each sensor sits ("left bearing, horizontal"), one per sensor, for the influence file.
+  std::vector<std::string> sensor_notes;
+  /// Index method: what the phase reference is fixed to (default: the adapter or spindle).
+  IndexReference index_reference = IndexReference::kAdapter;
 };
 
 }  // namespace trimwright::solve
