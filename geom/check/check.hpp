@@ -19,6 +19,7 @@ struct CheckResult {
   double value = 0;        ///< what was found, in `unit`
   double limit = 0;        ///< what is allowed, in `unit`
   std::string unit;        ///< e.g. "MPa", "rpm", "mm"
+  bool at_least = false;   ///< false: value must be ≤ limit; true: value must be ≥ limit
   bool ok = true;          ///< verdict
   bool acceptable = true;  ///< false: no job may accept this failure (e.g. over the marked speed)
   bool accepted = false;   ///< failed, but the job lists it under [checks] accept

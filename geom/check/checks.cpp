@@ -462,6 +462,12 @@ void check_printability(const Design& d, const Context& c, std::vector<CheckResu
   }
 }
 
+/// Checks whose value must reach its limit (enough thread, thick enough walls, solid infill);
+/// every other check's value must stay within its limit.
+bool must_reach_limit(const std::string& name) {
+  return name == "thread" || name.rfind("print-", 0) == 0;
+}
+
 void validate(const Context& c) {
   if (!positive(c.speed_rpm))
     throw InputError(fmt::format("machine.speed_rpm: {} is not a running speed; expected a positive "
@@ -492,6 +498,7 @@ std::vector<CheckResult> run_checks(const fixture::Design& design, const Context
   out.push_back(check_creep(design, context));
   check_printability(design, context, out);
   for (auto& r : out) {
+    r.at_least = must_reach_limit(r.name);
     if (r.ok || !r.acceptable) continue;
     r.accepted = std::find(context.accept.begin(), context.accept.end(), r.name) != context.accept.end();
   }

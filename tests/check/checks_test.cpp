@@ -395,3 +395,16 @@ TEST_CASE("check: the cautions cover the essentials", "[check]") {
   CHECK(has("ANSI B7.1"));
   CHECK(has("not a certified component"));
 }
+
+TEST_CASE("check: each result says which side of its limit is safe", "[check]") {
+  Context c = grinder();
+  c.infill_percent = 90;
+  for (const auto& r : run_checks(disc(), c)) {
+    INFO(r.name);
+    bool reach = r.name == "thread" || r.name.rfind("print-", 0) == 0;
+    CHECK(r.at_least == reach);
+    // A failed check is on the wrong side of its limit; a passed one on the right side.
+    if (r.name == "surface-speed") continue;  // information only
+    CHECK(r.ok == (r.at_least ? r.value >= r.limit : r.value <= r.limit));
+  }
+}
