@@ -9,6 +9,7 @@
 #include "geom/base/angle.hpp"
 #include "geom/base/error.hpp"
 #include "geom/io/files.hpp"
+#include "geom/solve/conventions.hpp"
 #include "geom/solve/tolerance.hpp"
 
 namespace trimwright::cli {
@@ -76,6 +77,8 @@ fixture::Request make_request(const Job& job, const Correction& corr,
   r.inserts = job.fixture.inserts;
   r.weighed_g = options.weighed_g;
   r.source = job.source;
+  r.angles_ccw_from_fixture_side = solve::angles_count_ccw_seen_from_fixture(
+      job.angles, job.machine.rotation == "cw" ? solve::Rotation::kCw : solve::Rotation::kCcw);
   return r;
 }
 
