@@ -372,6 +372,7 @@ TEST_CASE("check: clamp weights need their screw's size", "[check]") {
   d.parts[0].centroid_mm = {35, 0, 3};
   auto rs = run_checks(d, c);
   CHECK(find(rs, "disc-stress") == nullptr);  // not a disc about the spindle
+  CHECK(find(rs, "thread") == nullptr);       // on a rim, not on the spindle's thread
   CHECK_FALSE(find(rs, "clamp")->ok);
   c.clamp_screw_diameter_mm = 4;
   rs = run_checks(d, c);
