@@ -427,6 +427,9 @@ StlData parse_stl(std::string_view bytes, const std::string& source) {
               std::uint64_t{kFacetBytes} *
                   get_u32_le(reinterpret_cast<const unsigned char*>(bytes.data()) + kHeaderBytes);
   if (binary_size_matches) return parse_binary(bytes, source);
+  if (bytes.substr(0, 4) == std::string_view("PK\x03\x04", 4)) {
+    throw InputError(fmt::format("{}: a zip archive (a 3MF file?), not an STL", source));
+  }
   if (starts_with_solid(bytes) && looks_like_text(bytes)) return parse_ascii(bytes, source);
   if (bytes.size() < kHeaderBytes + kCountBytes) {
     throw InputError(fmt::format(

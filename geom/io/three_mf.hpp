@@ -22,6 +22,9 @@ struct ThreeMfObject {
   kernel::Mesh mesh;  ///< closed mesh in the part frame (design.md §3), mm
 };
 
+/// XML namespace of trimwright's own 3MF metadata names (written with the prefix "trimwright:").
+inline constexpr const char* kThreeMfMetadataNamespace = "urn:trimwright:3mf:metadata:1";
+
 /// Package-level metadata.
 struct ThreeMfMetadata {
   std::string title;  ///< 3MF "Title"; omitted when empty

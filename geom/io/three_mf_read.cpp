@@ -240,12 +240,15 @@ class XmlScanner {
   std::vector<std::string_view> open_;
 };
 
-double parse_double(const std::string& s, bool* ok) {
+// A decimal number (ST_Number: optional sign, digits, optional exponent; spaces around
+// tolerated), parsed as T. `ok` is false for anything else, NaN, infinity or overflow.
+template <typename T>
+T parse_number(const std::string& s, bool* ok) {
   std::string_view v(s);
   while (!v.empty() && (v.front() == ' ' || v.front() == '\t')) v.remove_prefix(1);
   while (!v.empty() && (v.back() == ' ' || v.back() == '\t')) v.remove_suffix(1);
   if (!v.empty() && v.front() == '+') v.remove_prefix(1);
-  double d = 0;
+  T d = 0;
   const auto [ptr, ec] = std::from_chars(v.data(), v.data() + v.size(), d);
   *ok = ec == std::errc() && ptr == v.data() + v.size() && !v.empty() && std::isfinite(d);
   return d;
@@ -342,7 +345,8 @@ class ModelParser {
         object->has_mesh = true;
         in_mesh = !tag.self_closing;
       } else if (name == "vertex" && object && in_mesh) {
-        object->mesh.vertices.push_back({number(tag, "x"), number(tag, "y"), number(tag, "z")});
+        object->mesh.vertices.push_back(
+            {coordinate(tag, "x"), coordinate(tag, "y"), coordinate(tag, "z")});
       } else if (name == "triangle" && object && in_mesh) {
         const auto v1 = static_cast<std::uint32_t>(int_attribute(tag, "v1", 0));
         const auto v2 = static_cast<std::uint32_t>(int_attribute(tag, "v2", 0));
@@ -396,11 +400,13 @@ class ModelParser {
     model.unit_mm = it->second;
   }
 
-  double number(const Tag& tag, std::string_view key) {
+  // A vertex coordinate, read at float precision as slicers read it (and as STL holds it), so
+  // that a 3MF and an STL of one mesh give the same vertices.
+  double coordinate(const Tag& tag, std::string_view key) {
     const std::string* s = tag.attribute(key);
     if (!s) scan_.fail(tag.offset, fmt::format("<{}> without attribute {}", tag.name, key));
     bool ok = false;
-    const double d = parse_double(*s, &ok);
+    const double d = parse_number<float>(*s, &ok);
     if (!ok) {
       scan_.fail(tag.offset, fmt::format("<{}> {}=\"{}\" is not a finite number", tag.name, key,
                                          s->substr(0, 40)));
@@ -430,7 +436,7 @@ class ModelParser {
       std::size_t j = i;
       while (j < text.size() && !std::isspace(static_cast<unsigned char>(text[j]))) ++j;
       bool ok = false;
-      const double d = parse_double(text.substr(i, j - i), &ok);
+      const double d = parse_number<double>(text.substr(i, j - i), &ok);
       if (!ok || count >= 12) {
         scan_.fail(tag.offset, fmt::format("<{}> transform \"{}\": expected 12 finite numbers",
                                            tag.name, text.substr(0, 80)));

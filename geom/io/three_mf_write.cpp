@@ -26,7 +26,6 @@ namespace {
 constexpr const char* kCoreNamespace = "http://schemas.microsoft.com/3dmanufacturing/core/2015/02";
 // Custom metadata names must be namespace-qualified (3MF Core Specification, "Metadata").
 constexpr const char* kMetadataPrefix = "trimwright";
-constexpr const char* kMetadataNamespace = "urn:trimwright:3mf:metadata:1";
 constexpr const char* kModelPath = "3D/3dmodel.model";
 
 constexpr const char* kContentTypes =
@@ -118,7 +117,7 @@ std::string model_xml(const std::vector<ThreeMfObject>& objects, const ThreeMfMe
   fmt::format_to(out,
                  "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
                  "<model unit=\"millimeter\" xml:lang=\"en-US\" xmlns=\"{}\" xmlns:{}=\"{}\">\n",
-                 kCoreNamespace, kMetadataPrefix, kMetadataNamespace);
+                 kCoreNamespace, kMetadataPrefix, kThreeMfMetadataNamespace);
   if (!metadata.title.empty()) {
     fmt::format_to(out, " <metadata name=\"Title\">{}</metadata>\n",
                    detail::xml_escape(metadata.title));
