@@ -22,6 +22,7 @@ namespace {
 
 using K = CGAL::Exact_predicates_inexact_constructions_kernel;
 using P3 = K::Point_3;
+using P2 = K::Point_2;
 using Box = CGAL::Box_intersection_d::Box_with_info_d<double, 3, std::uint32_t,
                                                       CGAL::Box_intersection_d::ID_FROM_BOX_ADDRESS>;
 using Tri = std::array<std::uint32_t, 3>;
@@ -57,38 +58,175 @@ struct UnionFind {
   void join(std::uint32_t a, std::uint32_t b) { parent[find(a)] = find(b); }
 };
 
-/// True when two non-degenerate triangles (welded ids) meet anywhere beyond the vertices or the
-/// edge they share. Shared edge: they overlap only if coplanar and on the same side of it. Shared
-/// vertex: they meet elsewhere only if an opposite edge meets the other triangle.
-bool triangles_intersect(const Tri& h, const Tri& g, const std::vector<P3>& p) {
-  int shared = 0, hi = -1, gj = -1, hi2 = -1, gj2 = -1;
+/// Shared vertices of two triangles: count and the positions of the first two in each.
+struct Sharing {
+  int count = 0;
+  int h[2] = {-1, -1};
+  int g[2] = {-1, -1};
+};
+
+Sharing sharing(const Tri& h, const Tri& g) {
+  Sharing s;
   for (int i = 0; i < 3; ++i)
     for (int j = 0; j < 3; ++j)
       if (h[static_cast<std::size_t>(i)] == g[static_cast<std::size_t>(j)]) {
-        if (shared == 0) {
-          hi = i;
-          gj = j;
-        } else {
-          hi2 = i;
-          gj2 = j;
+        if (s.count < 2) {
+          s.h[s.count] = i;
+          s.g[s.count] = j;
         }
-        ++shared;
+        ++s.count;
       }
+  return s;
+}
+
+// Closed 2D intersection tests from orientation predicates alone (exact, and fast through the
+// kernel's static filters; the library's constructive 2D intersection tests are slower).
+
+bool segments_meet(const P2& p, const P2& q, const P2& r, const P2& s) {
+  const CGAL::Orientation o1 = CGAL::orientation(p, q, r), o2 = CGAL::orientation(p, q, s);
+  const CGAL::Orientation o3 = CGAL::orientation(r, s, p), o4 = CGAL::orientation(r, s, q);
+  if (o1 != o2 && o3 != o4) return true;
+  // Remaining touching cases: an end on the other (collinear) segment.
+  return (o1 == CGAL::COLLINEAR && CGAL::collinear_are_ordered_along_line(p, r, q)) ||
+         (o2 == CGAL::COLLINEAR && CGAL::collinear_are_ordered_along_line(p, s, q)) ||
+         (o3 == CGAL::COLLINEAR && CGAL::collinear_are_ordered_along_line(r, p, s)) ||
+         (o4 == CGAL::COLLINEAR && CGAL::collinear_are_ordered_along_line(r, q, s));
+}
+
+bool point_in_triangle(const P2& p, const P2 t[3]) {
+  const CGAL::Orientation o = CGAL::orientation(t[0], t[1], t[2]), opposite = -o;
+  return CGAL::orientation(t[0], t[1], p) != opposite && CGAL::orientation(t[1], t[2], p) != opposite &&
+         CGAL::orientation(t[2], t[0], p) != opposite;
+}
+
+bool segment_meets_triangle(const P2& p, const P2& q, const P2 t[3]) {
+  return point_in_triangle(p, t) || point_in_triangle(q, t) || segments_meet(p, q, t[0], t[1]) ||
+         segments_meet(p, q, t[1], t[2]) || segments_meet(p, q, t[2], t[0]);
+}
+
+bool triangles_meet(const P2 a[3], const P2 b[3]) {
+  for (int i = 0; i < 3; ++i)
+    for (int j = 0; j < 3; ++j)
+      if (segments_meet(a[i], a[(i + 1) % 3], b[j], b[(j + 1) % 3])) return true;
+  return point_in_triangle(a[0], b) || point_in_triangle(b[0], a);
+}
+
+/// Exact test for two triangles in one plane, given as 2D points. Shared edge: they overlap only
+/// if their third corners lie on the same side. Shared corner: only if an opposite edge meets the
+/// other triangle.
+bool coplanar_triangles_intersect(const P2 h[3], const P2 g[3], const Sharing& s) {
+  if (s.count == 2) {
+    const P2& u = h[s.h[0]];
+    const P2& v = h[s.h[1]];
+    return CGAL::orientation(u, v, h[3 - s.h[0] - s.h[1]]) ==
+           CGAL::orientation(u, v, g[3 - s.g[0] - s.g[1]]);
+  }
+  if (s.count == 1)
+    return segment_meets_triangle(g[(s.g[0] + 1) % 3], g[(s.g[0] + 2) % 3], h) ||
+           segment_meets_triangle(h[(s.h[0] + 1) % 3], h[(s.h[0] + 2) % 3], g);
+  return triangles_meet(h, g);
+}
+
+/// The axis (0, 1, 2) to which the triangle's plane is perpendicular, exactly, or −1.
+int flat_axis(const Tri& t, const std::vector<P3>& p) {
+  for (int a = 2; a >= 0; --a)
+    if (p[t[0]][a] == p[t[1]][a] && p[t[1]][a] == p[t[2]][a]) return a;
+  return -1;
+}
+
+/// General test in 3D. Shared edge: they overlap only if coplanar and on the same side of it.
+/// Shared vertex: they meet elsewhere only if an opposite edge meets the other triangle.
+bool triangles_intersect_3d(const Tri& h, const Tri& g, const Sharing& s, const std::vector<P3>& p) {
   auto hp = [&](int i) -> const P3& { return p[h[static_cast<std::size_t>(i % 3)]]; };
   auto gp = [&](int j) -> const P3& { return p[g[static_cast<std::size_t>(j % 3)]]; };
-  if (shared >= 3) return true;  // the same triangle twice
-  if (shared == 2) {
-    const int h_other = 3 - hi - hi2, g_other = 3 - gj - gj2;
-    const P3& u = hp(hi);
-    const P3& v = hp(hi2);
+  if (s.count == 2) {
+    const int h_other = 3 - s.h[0] - s.h[1], g_other = 3 - s.g[0] - s.g[1];
+    const P3& u = hp(s.h[0]);
+    const P3& v = hp(s.h[1]);
+    // Quick exact decision first: if some axis projection puts the third corners strictly on
+    // opposite sides of the shared edge, the triangles meet only along it. (Neighbouring wall
+    // triangles are exactly coplanar, where the 3D test below needs exact arithmetic.)
+    for (int drop = 2; drop >= 0; --drop) {
+      const int a = drop == 0 ? 1 : 0, b = drop == 2 ? 1 : 2;
+      auto flat = [a, b](const P3& q) { return P2(q[a], q[b]); };
+      const CGAL::Orientation oh = CGAL::orientation(flat(u), flat(v), flat(hp(h_other)));
+      const CGAL::Orientation og = CGAL::orientation(flat(u), flat(v), flat(gp(g_other)));
+      if (oh != CGAL::COLLINEAR && og != CGAL::COLLINEAR) {
+        if (oh != og) return false;
+        break;
+      }
+    }
     return CGAL::coplanar(u, v, hp(h_other), gp(g_other)) &&
            CGAL::coplanar_orientation(u, v, hp(h_other), gp(g_other)) == CGAL::POSITIVE;
   }
   const K::Triangle_3 th(hp(0), hp(1), hp(2)), tg(gp(0), gp(1), gp(2));
-  if (shared == 1)
-    return CGAL::do_intersect(th, K::Segment_3(gp(gj + 1), gp(gj + 2))) ||
-           CGAL::do_intersect(tg, K::Segment_3(hp(hi + 1), hp(hi + 2)));
+  if (s.count == 1)
+    return CGAL::do_intersect(th, K::Segment_3(gp(s.g[0] + 1), gp(s.g[0] + 2))) ||
+           CGAL::do_intersect(tg, K::Segment_3(hp(s.h[0] + 1), hp(s.h[0] + 2)));
   return CGAL::do_intersect(th, tg);
+}
+
+/// True when two non-degenerate triangles (welded ids) meet anywhere beyond the vertices or the
+/// edge they share. Triangles in axis-parallel planes (the caps and floors of parts) are decided
+/// in 2D, where exact predicates rarely meet the degenerate (zero) cases that make the 3D tests
+/// slow: a triangle resting on such a plane touches it in a point or an edge, compared in 2D.
+bool triangles_intersect(Tri h, Tri g, const std::vector<P3>& p) {
+  Sharing s = sharing(h, g);
+  if (s.count >= 3) return true;  // the same triangle twice
+  int axis = flat_axis(h, p);
+  if (axis < 0) {
+    axis = flat_axis(g, p);
+    if (axis >= 0) {
+      std::swap(h, g);
+      s = sharing(h, g);
+    }
+  }
+  if (axis < 0) return triangles_intersect_3d(h, g, s, p);
+  const double level = p[h[0]][axis];
+  int below = 0, above = 0;
+  int on[3];
+  int n_on = 0;
+  for (int j = 0; j < 3; ++j) {
+    const double c = p[g[static_cast<std::size_t>(j)]][axis];
+    if (c < level) ++below;
+    else if (c > level) ++above;
+    else on[n_on++] = j;
+  }
+  if (below > 0 && above > 0) return triangles_intersect_3d(h, g, s, p);  // crosses the plane
+  if (n_on == 0) return false;
+  const int u = axis == 0 ? 1 : 0, v = axis == 2 ? 1 : 2;
+  auto flat = [&](std::uint32_t id) { return P2(p[id][u], p[id][v]); };
+  const P2 h2[3] = {flat(h[0]), flat(h[1]), flat(h[2])};
+  if (n_on == 3) {
+    const P2 g2[3] = {flat(g[0]), flat(g[1]), flat(g[2])};
+    return coplanar_triangles_intersect(h2, g2, s);
+  }
+  auto corner_of_h = [&](std::uint32_t id) {
+    for (int i = 0; i < 3; ++i)
+      if (h[static_cast<std::size_t>(i)] == id) return i;
+    return -1;
+  };
+  const std::uint32_t q0 = g[static_cast<std::size_t>(on[0])];
+  if (n_on == 1) {  // g touches the plane at one corner
+    if (corner_of_h(q0) >= 0) return false;
+    return point_in_triangle(flat(q0), h2);
+  }
+  // g rests on the plane along its edge q0–q1.
+  const std::uint32_t q1 = g[static_cast<std::size_t>(on[1])];
+  const int c0 = corner_of_h(q0), c1 = corner_of_h(q1);
+  if (c0 >= 0 && c1 >= 0) return false;  // the shared edge
+  if (c0 < 0 && c1 < 0)
+    return segment_meets_triangle(flat(q0), flat(q1), h2);
+  // One end is a corner of h: the edge enters h iff its other end lies in h's closed angle there.
+  const int c = c0 >= 0 ? c0 : c1;
+  const P2 q = flat(c0 >= 0 ? q1 : q0);
+  const P2& pc = h2[c];
+  const P2& a = h2[(c + 1) % 3];
+  const P2& b = h2[(c + 2) % 3];
+  const CGAL::Orientation o = CGAL::orientation(pc, a, b);
+  const CGAL::Orientation oa = CGAL::orientation(pc, a, q), ob = CGAL::orientation(pc, q, b);
+  return (oa == o || oa == CGAL::COLLINEAR) && (ob == o || ob == CGAL::COLLINEAR) &&
+         !(oa == CGAL::COLLINEAR && ob == CGAL::COLLINEAR);
 }
 
 }  // namespace
@@ -197,9 +335,14 @@ MeshInspection inspect_mesh(const Mesh& mesh, bool check_self_intersection) {
       if (proper[k])
         boxes.emplace_back(pts[tri[k][0]].bbox() + pts[tri[k][1]].bbox() + pts[tri[k][2]].bbox(),
                            static_cast<std::uint32_t>(k));
+    // Boxes are passed by pointer: the algorithm copies its input, and box ids come from addresses.
+    std::vector<const Box*> handles;
+    handles.reserve(boxes.size());
+    for (const Box& b : boxes) handles.push_back(&b);
     bool found = false;
-    CGAL::box_self_intersection_d(boxes.begin(), boxes.end(), [&](const Box& a, const Box& b) {
-      if (!found && triangles_intersect(tri[a.info()], tri[b.info()], pts)) found = true;
+    CGAL::box_self_intersection_d(handles.begin(), handles.end(), [&](const Box* a, const Box* b) {
+      if (!found && a->info() != b->info() && triangles_intersect(tri[a->info()], tri[b->info()], pts))
+        found = true;
     });
     r.self_intersects = found;
   }

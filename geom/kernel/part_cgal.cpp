@@ -102,8 +102,9 @@ class Layer {
     group_of_.reserve(total);
     for (std::size_t gi = 0; gi < groups_.size(); ++gi)
       for (const Vec2& p : groups_[gi]->points) {
+        const std::size_t before = cdt_.number_of_vertices();
         Cdt::Vertex_handle v = cdt_.insert(K::Point_2(p[0], p[1]));
-        if (v->info() != kUnset)
+        if (cdt_.number_of_vertices() == before)  // the point was there already
           fail(context_ + ": " + groups_[gi]->name + " touches " +
                groups_[group_of_[v->info()]]->name + " at " + point_text(p));
         v->info() = static_cast<std::uint32_t>(handles_.size());
