@@ -23,7 +23,8 @@ std::string run_where(const Readings& readings, std::size_t run_index);
 std::string readings_where(const Readings& readings);
 
 /// Throw InputError "<run_where>: <what>".
-[[noreturn]] void fail_run(const Readings& readings, std::size_t run_index, const std::string& what);
+[[noreturn]] void fail_run(const Readings& readings, std::size_t run_index,
+                           const std::string& what);
 
 /// Throw InputError "<readings_where>: <what>".
 [[noreturn]] void fail_readings(const Readings& readings, const std::string& what);

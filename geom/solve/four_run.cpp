@@ -7,9 +7,8 @@
 // (t² = mean(A_k²) − O², cos φ = (2/3)·Σ c_k cos θ_k, sin φ = −(2/3)·Σ c_k sin θ_k). The
 // correction is O/a g·mm at 180° − δ; |(cos δ, sin δ)| measures how consistent the data are.
 // docs/solver.md §4.
-#include <cmath>
-
 #include <Eigen/Dense>
+#include <cmath>
 
 #include "geom/base/angle.hpp"
 #include "geom/solve/conventions.hpp"
@@ -30,15 +29,17 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
   const int sensors = validate_runs(readings, 1, false, "four-run");
   if (sensors != 1)
     fail_readings(readings, format("%d sensors; expected 1 (four-run is a single-plane, "
-                                   "single-sensor method)", sensors));
+                                   "single-sensor method)",
+                                   sensors));
   const auto& runs = readings.runs;
   if (!runs.front().trial.empty())
     fail_run(readings, 0, "has a trial weight; expected the original run (no weights) first");
   std::vector<std::size_t> trial_runs;
   for (std::size_t i = 1; i < runs.size(); ++i) {
     if (runs[i].trial.empty())
-      fail_run(readings, i, "has no trial weight; expected every run after the first to carry "
-                            "the trial at a new position");
+      fail_run(readings, i,
+               "has no trial weight; expected every run after the first to carry "
+               "the trial at a new position");
     trial_runs.push_back(i);
   }
   if (trial_runs.size() < 3)
@@ -71,8 +72,9 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
   Eigen::JacobiSVD<Eigen::MatrixXd> svd(m, Eigen::ComputeThinU | Eigen::ComputeThinV);
   const auto& sv = svd.singularValues();
   if (!(sv(2) > 1e-9 * sv(0)))
-    fail_readings(readings, "the trial positions do not determine the solution; expected the "
-                            "trial at three or more different angles (e.g. 0°, 120°, 240°)");
+    fail_readings(readings,
+                  "the trial positions do not determine the solution; expected the "
+                  "trial at three or more different angles (e.g. 0°, 120°, 240°)");
   const Eigen::Vector3d x = svd.solve(y);
   const double t2 = x(0);  // squared effect of the reference trial u_ref
   if (!(t2 > 0))
@@ -86,8 +88,8 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
 
   // Fitted amplitudes (exact for three trial positions).
   double sum_sq = 0;
-  result.readings.push_back(ReadingFit{runs.front().name, 0, 1, o, std::nullopt, o, std::nullopt, 0.0,
-                                       severity_of(o, readings, options)});
+  result.readings.push_back(ReadingFit{runs.front().name, 0, 1, o, std::nullopt, o, std::nullopt,
+                                       0.0, severity_of(o, readings, options)});
   const Eigen::VectorXd fitted_sq = m * x;
   for (Eigen::Index k = 0; k < n; ++k) {
     const std::size_t i = trial_runs[static_cast<std::size_t>(k)];
@@ -116,9 +118,9 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
   if (t < 0.3 * o)
     result.warnings.push_back(format(
         "the trial's effect (t = %.3g) is only %.0f %% of the original amplitude %.3g; the 30/30 "
-        "rule asks for about 30 %%: the result is uncertain, a larger trial gives a more "
-        "trustworthy one",
-        t, 100.0 * t / o, o));
+        "rule asks for about 30 %%: the result is uncertain, a trial of about %.3g g·mm would "
+        "be more trustworthy",
+        t, 100.0 * t / o, o, u_ref * 0.3 * o / t));
   double a_max = 0;
   for (std::size_t i : trial_runs) a_max = std::max(a_max, runs[i].amplitude[0]);
   for (const std::string& w :

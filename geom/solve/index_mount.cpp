@@ -5,9 +5,8 @@
 // with the reference on the rotor V = A·e^{−iψ} + R (+ α·T): A the adapter's share, R the
 // rotor's (both as read at index 0). At 0° and 180° R = (V1 − V2)/2 and A = (V1 + V2)/2 with the
 // reference on the adapter. Linear in (A, R, α): fitted by least squares. docs/solver.md §7.
-#include <cmath>
-
 #include <Eigen/Dense>
+#include <cmath>
 
 #include "geom/base/angle.hpp"
 #include "geom/solve/conventions.hpp"
@@ -19,7 +18,8 @@ std::vector<Cplx> solve_index(const Readings& readings, const SolveOptions& opti
                               const std::optional<InfluenceSet>& influence, SolveResult& result) {
   const int sensors = validate_runs(readings, 1, true, "index");
   if (sensors != 1)
-    fail_readings(readings, format("%d sensors; expected 1 (the index method reads one sensor)", sensors));
+    fail_readings(readings,
+                  format("%d sensors; expected 1 (the index method reads one sensor)", sensors));
   const auto& runs = readings.runs;
   const bool on_adapter = readings.index_reference == IndexReference::kAdapter;
   bool fit_alpha = false;
@@ -43,21 +43,24 @@ std::vector<Cplx> solve_index(const Readings& readings, const SolveOptions& opti
   for (Eigen::Index r = 0; r < n; ++r) {
     const Run& run = runs[static_cast<std::size_t>(r)];
     const double index = run.index_deg.value_or(0.0);
-    if (!std::isfinite(index)) fail_run(readings, static_cast<std::size_t>(r), "index_deg is not finite; expected degrees");
+    if (!std::isfinite(index))
+      fail_run(readings, static_cast<std::size_t>(r), "index_deg is not finite; expected degrees");
     const Cplx turn = weight_to_internal(1.0, index, readings.angles);  // e^{iψ}, internal sense
     v(r) = reading_to_internal(run.amplitude[0], *run.phase_deg[0], readings.phase);
     m(r, 0) = on_adapter ? Cplx(1, 0) : std::conj(turn);
     m(r, 1) = on_adapter ? turn : Cplx(1, 0);
-    if (fit_alpha) m(r, 2) = trials[static_cast<std::size_t>(r)] / t_scale * (on_adapter ? turn : Cplx(1, 0));
+    if (fit_alpha)
+      m(r, 2) = trials[static_cast<std::size_t>(r)] / t_scale * (on_adapter ? turn : Cplx(1, 0));
   }
   Eigen::JacobiSVD<Eigen::MatrixXcd> svd(m, Eigen::ComputeThinU | Eigen::ComputeThinV);
   const auto& sv = svd.singularValues();
   if (!(sv(sv.size() - 1) > 1e-9 * sv(0)))
-    fail_readings(readings, fit_alpha
-        ? "the runs do not separate rotor, adapter and trial; expected runs at two index positions "
-          "(0° and 180° are best) and a trial run"
-        : "every run is at the same index position; expected the rotor read at two positions on "
-          "its adapter (0° and 180° are best)");
+    fail_readings(readings, fit_alpha ? "the runs do not separate rotor, adapter and trial; "
+                                        "expected runs at two index positions "
+                                        "(0° and 180° are best) and a trial run"
+                                      : "every run is at the same index position; expected the "
+                                        "rotor read at two positions on "
+                                        "its adapter (0° and 180° are best)");
   const Eigen::VectorXcd x = svd.solve(v);
   const Cplx adapter = x(0), rotor = x(1);
 
@@ -68,9 +71,9 @@ std::vector<Cplx> solve_index(const Readings& readings, const SolveOptions& opti
     const Cplx fit_user = internal_to_phase_sense(fitted(r), readings.phase);
     const double residual = std::abs(v(r) - fitted(r));
     sum_sq += residual * residual;
-    result.readings.push_back(ReadingFit{run.name, static_cast<int>(r), 1, run.amplitude[0],
-                                         run.phase_deg[0], std::abs(fit_user), angle_deg_of(fit_user),
-                                         residual, severity_of(run.amplitude[0], readings, options)});
+    result.readings.push_back(ReadingFit{
+        run.name, static_cast<int>(r), 1, run.amplitude[0], run.phase_deg[0], std::abs(fit_user),
+        angle_deg_of(fit_user), residual, severity_of(run.amplitude[0], readings, options)});
   }
   result.redundancy = static_cast<int>(n - unknowns);
   result.residual_rms = std::sqrt(sum_sq / static_cast<double>(n));
@@ -99,27 +102,32 @@ std::vector<Cplx> solve_index(const Readings& readings, const SolveOptions& opti
   } else if (influence) {
     const InfluenceCoefficient* c = influence->find(1, 1);
     if (influence->sensors != 1 || influence->planes != 1 || !c || !c->angle_deg)
-      fail_readings(readings, "the influence set needs one sensor, one plane and a phase for the "
-                              "index method; expected a set fitted by a single-plane phase method");
+      fail_readings(readings,
+                    "the influence set needs one sensor, one plane and a phase for the "
+                    "index method; expected a set fitted by a single-plane phase method");
     if (!influence->units.empty() && influence->units != readings.units)
-      fail_readings(readings, format("the influence set is in \"%s\"; expected the readings' units \"%s\"",
-                                     influence->units.c_str(), readings.units.c_str()));
+      fail_readings(readings,
+                    format("the influence set is in \"%s\"; expected the readings' units \"%s\"",
+                           influence->units.c_str(), readings.units.c_str()));
     alpha = reading_to_internal(c->magnitude, *c->angle_deg, influence->phase);
     result.influence = influence;
   }
   if (!alpha || !(std::abs(*alpha) > 0)) {
     if (fit_alpha)
-      fail_readings(readings, "the trial changed nothing; expected a trial run whose reading differs");
-    result.warnings.push_back("no influence coefficient (no trial run and no saved set): the "
-                              "rotor's and the adapter's shares are given in reading units only");
+      fail_readings(readings,
+                    "the trial changed nothing; expected a trial run whose reading differs");
+    result.warnings.push_back(
+        "no influence coefficient (no trial run and no saved set): the "
+        "rotor's and the adapter's shares are given in reading units only");
     result.adapter = split;
     return {};
   }
   // Unbalances (internal sense): the rotor's in its own frame, the adapter's from its mark.
   const Cplx rotor_unbalance = rotor / *alpha;
   const Cplx adapter_unbalance = adapter / *alpha;
-  split.adapter_correction = make_correction(
-      1, internal_to_angle_sense(-adapter_unbalance, readings.angles), readings.correction_radius_mm);
+  split.adapter_correction =
+      make_correction(1, internal_to_angle_sense(-adapter_unbalance, readings.angles),
+                      readings.correction_radius_mm);
   result.adapter = split;
   return minus_kept(readings, {internal_to_angle_sense(-rotor_unbalance, readings.angles)});
 }

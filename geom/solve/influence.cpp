@@ -1,12 +1,12 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 #include "geom/solve/influence.hpp"
 
+#include <toml++/toml.h>
+
 #include <cmath>
 #include <cstdio>
 #include <fstream>
 #include <sstream>
-
-#include <toml++/toml.h>
 
 #include "geom/base/error.hpp"
 
@@ -150,9 +150,12 @@ InfluenceSet influence_from_toml(const std::string& text, const std::string& sou
   set.source = source;
   set.units = *top.text("units", true);
   const std::string phase = *top.text("phase", true);
-  if (phase == "lag") set.phase = PhaseSense::kLag;
-  else if (phase == "lead") set.phase = PhaseSense::kLead;
-  else top.fail("phase", "\"" + phase + "\"; expected \"lag\" or \"lead\"");
+  if (phase == "lag")
+    set.phase = PhaseSense::kLag;
+  else if (phase == "lead")
+    set.phase = PhaseSense::kLead;
+  else
+    top.fail("phase", "\"" + phase + "\"; expected \"lag\" or \"lead\"");
   set.speed_rpm = top.real("speed_rpm", false).value_or(0.0);
   if (!(set.speed_rpm >= 0) || !std::isfinite(set.speed_rpm))
     top.fail("speed_rpm", number(set.speed_rpm) + "; expected 0 (unknown) or a speed above 0");
@@ -161,7 +164,8 @@ InfluenceSet influence_from_toml(const std::string& text, const std::string& sou
     top.fail("correction_radius_mm", number(set.correction_radius_mm) + "; expected 0 or more");
   const int64_t sensors = *top.integer("sensors", true);
   const int64_t planes = *top.integer("planes", true);
-  if (sensors < 1 || sensors > 64) top.fail("sensors", std::to_string(sensors) + "; expected 1 to 64");
+  if (sensors < 1 || sensors > 64)
+    top.fail("sensors", std::to_string(sensors) + "; expected 1 to 64");
   if (planes < 1 || planes > 64) top.fail("planes", std::to_string(planes) + "; expected 1 to 64");
   set.sensors = static_cast<int>(sensors);
   set.planes = static_cast<int>(planes);
@@ -213,7 +217,8 @@ void save_influence(const std::string& path, const InfluenceSet& set) {
   const std::string temporary = path + ".partial";
   {
     std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-    if (!out) throw FileError(path + ": cannot write the influence file (cannot create " + temporary + ")");
+    if (!out)
+      throw FileError(path + ": cannot write the influence file (cannot create " + temporary + ")");
     out << influence_to_toml(set);
     out.flush();
     if (!out) {
@@ -230,7 +235,10 @@ void save_influence(const std::string& path, const InfluenceSet& set) {
 
 InfluenceSet load_influence(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
-  if (!in) throw FileError(path + ": cannot read the influence file; expected a file written by a solve with save_influence");
+  if (!in)
+    throw FileError(
+        path +
+        ": cannot read the influence file; expected a file written by a solve with save_influence");
   std::ostringstream text;
   text << in.rdbuf();
   if (in.bad()) throw FileError(path + ": cannot read the influence file (read failed)");

@@ -17,26 +17,26 @@ namespace trimwright::solve {
 /// adds at the sensor. Moving the weight turns the reading by the same angle in the internal
 /// sense (design.md §3, docs/solver.md).
 struct InfluenceCoefficient {
-  int sensor = 1;                     ///< 1-based
-  int plane = 1;                      ///< 1-based
-  double magnitude = 0;               ///< reading units per g·mm, ≥ 0
-  std::optional<double> angle_deg;    ///< phase in the set's phase sense, [0, 360); none when
-                                      ///< only amplitudes were measured (four-run)
+  int sensor = 1;                   ///< 1-based
+  int plane = 1;                    ///< 1-based
+  double magnitude = 0;             ///< reading units per g·mm, ≥ 0
+  std::optional<double> angle_deg;  ///< phase in the set's phase sense, [0, 360); none when
+                                    ///< only amplitudes were measured (four-run)
 };
 
 /// A full set of influence coefficients with what is needed to reuse it safely.
 struct InfluenceSet {
-  int sensors = 0;                          ///< number of sensors
-  int planes = 0;                           ///< number of correction planes
+  int sensors = 0;                                 ///< number of sensors
+  int planes = 0;                                  ///< number of correction planes
   std::vector<InfluenceCoefficient> coefficients;  ///< sensors × planes, sensor-major
-  std::string units;                        ///< the reading unit label, e.g. "mm/s-pk"
-  PhaseSense phase = PhaseSense::kLag;      ///< sense of angle_deg
-  double speed_rpm = 0;                     ///< running speed they were measured at (0 = unknown)
-  double correction_radius_mm = 0;          ///< the job's correction radius (0 = not given)
-  std::vector<std::string> sensor_notes;    ///< where each sensor sat
-  std::string method;                       ///< how they were found ("trial", "fit", …)
-  std::string note;                         ///< free text (rotor, date)
-  std::string source;                       ///< file it was loaded from (empty if fitted)
+  std::string units;                               ///< the reading unit label, e.g. "mm/s-pk"
+  PhaseSense phase = PhaseSense::kLag;             ///< sense of angle_deg
+  double speed_rpm = 0;                   ///< running speed they were measured at (0 = unknown)
+  double correction_radius_mm = 0;        ///< the job's correction radius (0 = not given)
+  std::vector<std::string> sensor_notes;  ///< where each sensor sat
+  std::string method;                     ///< how they were found ("trial", "fit", …)
+  std::string note;                       ///< free text (rotor, date)
+  std::string source;                     ///< file it was loaded from (empty if fitted)
 
   /// The coefficient of a sensor and plane (1-based), or nullptr.
   const InfluenceCoefficient* find(int sensor, int plane) const;

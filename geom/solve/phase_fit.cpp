@@ -2,10 +2,9 @@
 // Phase methods: trial, two-plane and fit share one linear model per sensor,
 //   V[r][s] = V0[s] + Σ_p α[s][p]·W[r][p]   (internal sense, docs/solver.md §2),
 // fitted by least squares; the correction minimises Σ_s |V0[s] + Σ_p α[s][p]·W[p]|².
+#include <Eigen/Dense>
 #include <algorithm>
 #include <cmath>
-
-#include <Eigen/Dense>
 
 #include "geom/base/angle.hpp"
 #include "geom/solve/conventions.hpp"
@@ -40,13 +39,15 @@ int planes_of(const Readings& readings, const std::optional<InfluenceSet>& influ
     default: break;
   }
   if (readings.planes < 0)
-    fail_readings(readings, format("planes = %d; expected 0 (from the runs) or more", readings.planes));
+    fail_readings(readings,
+                  format("planes = %d; expected 0 (from the runs) or more", readings.planes));
   if (readings.planes > 0) return readings.planes;
   if (influence) return influence->planes;
   int planes = 0;
   for (const Run& run : readings.runs)
     for (const TrialWeight& w : run.trial) planes = std::max(planes, w.plane);
-  if (planes == 0) fail_readings(readings, "no run has a weight; expected runs with weights in each plane");
+  if (planes == 0)
+    fail_readings(readings, "no run has a weight; expected runs with weights in each plane");
   return planes;
 }
 
@@ -75,21 +76,24 @@ Eigen::MatrixXcd matrix_from_set(const Readings& readings, const SolveOptions& o
                                  std::vector<std::string>& warnings) {
   const std::string name = set.source.empty() ? "the given influence set" : set.source;
   if (set.sensors != sensors || set.planes != planes)
-    fail_readings(readings, format("%s has %d sensor(s) × %d plane(s); expected %d × %d as in the readings",
-                                   name.c_str(), set.sensors, set.planes, sensors, planes));
+    fail_readings(readings,
+                  format("%s has %d sensor(s) × %d plane(s); expected %d × %d as in the readings",
+                         name.c_str(), set.sensors, set.planes, sensors, planes));
   if (!set.units.empty() && set.units != readings.units)
     fail_readings(readings, format("%s is in \"%s\"; expected the readings' units \"%s\"",
                                    name.c_str(), set.units.c_str(), readings.units.c_str()));
   if (set.speed_rpm > 0 && options.speed_rpm > 0 &&
       std::fabs(set.speed_rpm - options.speed_rpm) > kSpeedMismatch * options.speed_rpm)
-    warnings.push_back(format("%s was measured at %.0f rpm, the machine runs at %.0f rpm; "
-                              "influence coefficients change with speed",
-                              name.c_str(), set.speed_rpm, options.speed_rpm));
+    warnings.push_back(
+        format("%s was measured at %.0f rpm, the machine runs at %.0f rpm; "
+               "influence coefficients change with speed",
+               name.c_str(), set.speed_rpm, options.speed_rpm));
   Eigen::MatrixXcd a(sensors, planes);
   for (int s = 0; s < sensors; ++s)
     for (int p = 0; p < planes; ++p) {
       const InfluenceCoefficient* c = set.find(s + 1, p + 1);
-      if (!c) fail_readings(readings, format("%s lacks sensor %d, plane %d", name.c_str(), s + 1, p + 1));
+      if (!c)
+        fail_readings(readings, format("%s lacks sensor %d, plane %d", name.c_str(), s + 1, p + 1));
       if (!c->angle_deg)
         fail_readings(readings, format("%s has no phase for sensor %d, plane %d (amplitude-only "
                                        "fit); expected coefficients fitted from phase readings",
@@ -105,21 +109,26 @@ void check_shape(const Readings& readings, const PhaseData& d) {
   const std::size_t needed = static_cast<std::size_t>(d.planes) + 1;
   if (readings.method == Method::kTrial && runs != 2)
     fail_readings(readings, format("%zu run(s); expected 2 (the original run and one trial run; "
-                                   "use method \"fit\" for more runs)", runs));
+                                   "use method \"fit\" for more runs)",
+                                   runs));
   if (readings.method == Method::kTwoPlane) {
     if (runs != 3)
       fail_readings(readings, format("%zu run(s); expected 3 (original, trial in plane 1, trial "
-                                     "in plane 2; use method \"fit\" for more runs)", runs));
+                                     "in plane 2; use method \"fit\" for more runs)",
+                                     runs));
     if (d.sensors < 2)
       fail_readings(readings, format("%d sensor(s); expected 2 (one amplitude and phase per "
-                                     "sensor in every run)", d.sensors));
+                                     "sensor in every run)",
+                                     d.sensors));
   }
   if (runs < needed)
     fail_readings(readings, format("%zu run(s) for %d plane(s); expected at least %zu (one more "
-                                   "than the planes)", runs, d.planes, needed));
+                                   "than the planes)",
+                                   runs, d.planes, needed));
   if (d.sensors < d.planes)
     fail_readings(readings, format("%d sensor(s) for %d planes; expected at least as many sensors "
-                                   "as planes", d.sensors, d.planes));
+                                   "as planes",
+                                   d.sensors, d.planes));
 }
 
 /// Trial and two-plane: each trial run must change the readings; warn when the change is below
@@ -148,16 +157,22 @@ void check_trials(const Readings& readings, const SolveOptions& options, const P
       const TrialEffect e = trial_effect(original.amplitude[s], original.phase_deg[s],
                                          run.amplitude[s], run.phase_deg[s]);
       enough = enough || e.enough;
-      const double c = std::abs(d.v(ri, static_cast<Eigen::Index>(s)) - d.v(0, static_cast<Eigen::Index>(s)));
+      const double c =
+          std::abs(d.v(ri, static_cast<Eigen::Index>(s)) - d.v(0, static_cast<Eigen::Index>(s)));
       if (c > best_change) best_change = c, best = s, best_effect = e;
     }
-    if (!enough)
+    if (!enough) {
+      // The trial that would change the reading by about 30 % of the original (linear model).
+      const double v0 = std::abs(d.v(0, static_cast<Eigen::Index>(best)));
+      const double suggested = run_trial_gmm(run) * 0.3 * v0 / best_change;
       warnings.push_back(run_where(readings, r) +
                          format(": the trial changed the reading by only %.0f %% and %.0f° "
                                 "(sensor %zu); the 30/30 rule asks for 30 %% or 30°: the result "
-                                "is uncertain, a larger trial gives a more trustworthy one",
+                                "is uncertain, a trial of about %.3g g·mm would be more "
+                                "trustworthy",
                                 best_effect.amplitude_change_percent,
-                                best_effect.phase_change_deg.value_or(0.0), best + 1));
+                                best_effect.phase_change_deg.value_or(0.0), best + 1, suggested));
+    }
     for (const std::string& w :
          trial_risk_warnings(run_trial_gmm(run), options.rotor_mass_kg, options.speed_rpm,
                              original.amplitude[best], run.amplitude[best]))
@@ -174,8 +189,9 @@ void check_design(const Readings& readings, const Eigen::MatrixXcd& x) {
     const double spread = (col.array() - col(0)).abs().maxCoeff();
     if (!(spread > 0)) {
       if (readings.method == Method::kTrial)
-        fail_run(readings, 1, "has the same weights as the first run; expected a trial weight "
-                              "added or moved between the two runs");
+        fail_run(readings, 1,
+                 "has the same weights as the first run; expected a trial weight "
+                 "added or moved between the two runs");
       fail_readings(readings, format("the weights in plane %ld are the same in every run; expected "
                                      "a run that adds or moves a weight in plane %ld",
                                      static_cast<long>(p), static_cast<long>(p)));
@@ -185,9 +201,10 @@ void check_design(const Readings& readings, const Eigen::MatrixXcd& x) {
   Eigen::JacobiSVD<Eigen::MatrixXcd> svd(scaled);
   const auto& sv = svd.singularValues();
   if (!(sv(sv.size() - 1) > kSingular * sv(0)))
-    fail_readings(readings, "the runs' weights do not separate the planes (one plane's weights "
-                            "are a combination of the others' in every run); expected runs that "
-                            "change each plane's weight independently");
+    fail_readings(readings,
+                  "the runs' weights do not separate the planes (one plane's weights "
+                  "are a combination of the others' in every run); expected runs that "
+                  "change each plane's weight independently");
 }
 
 }  // namespace
@@ -270,7 +287,8 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
     for (int s = 0; s < d.sensors; ++s)
       for (int p = 0; p < planes; ++p) {
         const Cplx c = internal_to_phase_sense(a(s, p), readings.phase);
-        set.coefficients.push_back(InfluenceCoefficient{s + 1, p + 1, std::abs(c), angle_deg_of(c)});
+        set.coefficients.push_back(
+            InfluenceCoefficient{s + 1, p + 1, std::abs(c), angle_deg_of(c)});
       }
   }
   result.influence = set;
@@ -279,15 +297,17 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
   Eigen::JacobiSVD<Eigen::MatrixXcd> svd(a, Eigen::ComputeThinU | Eigen::ComputeThinV);
   const auto& sv = svd.singularValues();
   if (!(sv(0) > 0))
-    fail_readings(readings, "every influence coefficient is zero: the weights changed nothing; "
-                            "expected trial runs whose readings differ from the original run");
+    fail_readings(readings,
+                  "every influence coefficient is zero: the weights changed nothing; "
+                  "expected trial runs whose readings differ from the original run");
   const double condition = sv(0) / sv(sv.size() - 1);
   if (planes > 1) {
     result.condition_number = condition;
     if (!(sv(sv.size() - 1) > kSingular * sv(0)))
-      fail_readings(readings, "the influence matrix is singular: the sensors cannot tell the "
-                              "planes apart (their readings respond to each plane in the same "
-                              "proportion); expected sensors nearer each plane or planes farther apart");
+      fail_readings(readings,
+                    "the influence matrix is singular: the sensors cannot tell the "
+                    "planes apart (their readings respond to each plane in the same "
+                    "proportion); expected sensors nearer each plane or planes farther apart");
     if (condition > kIllConditioned)
       result.warnings.push_back(format(
           "the influence matrix is ill-conditioned (condition number %.1f): the planes are not "
@@ -296,16 +316,19 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
           condition, condition));
   }
   const Eigen::VectorXcd w_total = -svd.solve(v0);
-  const Eigen::VectorXcd now = readings.keep_trial ? Eigen::VectorXcd(d.v.row(runs - 1).transpose()) : v0;
+  const Eigen::VectorXcd now =
+      readings.keep_trial ? Eigen::VectorXcd(d.v.row(runs - 1).transpose()) : v0;
   const Eigen::VectorXcd w_add = readings.keep_trial ? Eigen::VectorXcd(-svd.solve(now)) : w_total;
   const Eigen::VectorXcd after = now + a * w_add;
   for (Eigen::Index s = 0; s < sensors; ++s) {
     const Cplx p = internal_to_phase_sense(after(s), readings.phase);
-    result.predicted.push_back(PredictedVibration{static_cast<int>(s) + 1, std::abs(p), angle_deg_of(p),
+    result.predicted.push_back(PredictedVibration{static_cast<int>(s) + 1, std::abs(p),
+                                                  angle_deg_of(p),
                                                   severity_of(std::abs(p), readings, options)});
   }
   std::vector<Cplx> add;
-  for (int p = 0; p < planes; ++p) add.push_back(internal_to_angle_sense(w_add(p), readings.angles));
+  for (int p = 0; p < planes; ++p)
+    add.push_back(internal_to_angle_sense(w_add(p), readings.angles));
   return add;
 }
 

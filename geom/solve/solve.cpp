@@ -60,18 +60,18 @@ void fail_readings(const Readings& readings, const std::string& what) {
 void validate_weights(const Readings& readings, std::size_t run_index, int planes) {
   const std::size_t i = run_index;
   for (const TrialWeight& w : readings.runs[i].trial) {
-      if (w.plane < 1 || w.plane > planes)
-        fail_run(readings, i,
-                 format("trial weight in plane %d, which does not exist; expected plane %s",
-                        w.plane,
-                        planes == 1 ? "1 (the method has one plane)"
-                                    : format("1 to %d", planes).c_str()));
-      if (!std::isfinite(w.mass_g) || !(w.mass_g > 0))
-        fail_run(readings, i, format("trial mass_g %g; expected a mass above 0 g", w.mass_g));
-      if (!std::isfinite(w.radius_mm) || !(w.radius_mm > 0))
-        fail_run(readings, i, format("trial radius_mm %g; expected a radius above 0 mm", w.radius_mm));
-      if (!std::isfinite(w.angle_deg))
-        fail_run(readings, i, "trial angle_deg is not finite; expected degrees");
+    if (w.plane < 1 || w.plane > planes)
+      fail_run(
+          readings, i,
+          format("trial weight in plane %d, which does not exist; expected plane %s", w.plane,
+                 planes == 1 ? "1 (the method has one plane)" : format("1 to %d", planes).c_str()));
+    if (!std::isfinite(w.mass_g) || !(w.mass_g > 0))
+      fail_run(readings, i, format("trial mass_g %g; expected a mass above 0 g", w.mass_g));
+    if (!std::isfinite(w.radius_mm) || !(w.radius_mm > 0))
+      fail_run(readings, i,
+               format("trial radius_mm %g; expected a radius above 0 mm", w.radius_mm));
+    if (!std::isfinite(w.angle_deg))
+      fail_run(readings, i, "trial angle_deg is not finite; expected degrees");
   }
 }
 
@@ -83,9 +83,10 @@ int validate_runs(const Readings& readings, int planes, bool need_phase, const c
     const Run& run = readings.runs[i];
     if (run.amplitude.empty()) {
       if (!run.recording.empty())
-        fail_run(readings, i, "recording \"" + run.recording +
-                                  "\" has not been measured; expected the amplitude and phase "
-                                  "measured from it before solving");
+        fail_run(readings, i,
+                 "recording \"" + run.recording +
+                     "\" has not been measured; expected the amplitude and phase "
+                     "measured from it before solving");
       fail_run(readings, i, "no amplitude; expected one amplitude per sensor");
     }
     if (run.amplitude.size() != sensors)
@@ -99,7 +100,9 @@ int validate_runs(const Readings& readings, int planes, bool need_phase, const c
     for (std::size_t s = 0; s < run.amplitude.size(); ++s) {
       const double a = run.amplitude[s];
       if (!std::isfinite(a) || a < 0)
-        fail_run(readings, i, format("amplitude %g (sensor %zu); expected a finite value of 0 or more", a, s + 1));
+        fail_run(
+            readings, i,
+            format("amplitude %g (sensor %zu); expected a finite value of 0 or more", a, s + 1));
       const bool has_phase = s < run.phase_deg.size() && run.phase_deg[s].has_value();
       if (need_phase && !has_phase)
         fail_run(readings, i,
@@ -133,7 +136,8 @@ double run_trial_gmm(const Run& run) {
 
 std::vector<Cplx> minus_kept(const Readings& readings, const std::vector<Cplx>& total) {
   if (!readings.keep_trial || readings.runs.empty()) return total;
-  const auto last = run_weights(readings, readings.runs.back(), static_cast<int>(total.size()), false);
+  const auto last =
+      run_weights(readings, readings.runs.back(), static_cast<int>(total.size()), false);
   std::vector<Cplx> add = total;
   for (std::size_t p = 0; p < add.size(); ++p) add[p] -= last[p];
   return add;
@@ -183,10 +187,10 @@ void add_tolerance(const SolveOptions& options, SolveResult& result) {
   ToleranceCheck t;
   t.grade_mm_s = *options.grade_mm_s;
   t.grade = grade_name(t.grade_mm_s);
-  t.permissible_gmm = permissible_unbalance_gmm(t.grade_mm_s, options.rotor_mass_kg, options.speed_rpm);
-  t.plane_permissible_gmm = share_tolerance(t.permissible_gmm,
-                                            static_cast<int>(result.corrections.size()),
-                                            options.tolerance_shares);
+  t.permissible_gmm =
+      permissible_unbalance_gmm(t.grade_mm_s, options.rotor_mass_kg, options.speed_rpm);
+  t.plane_permissible_gmm = share_tolerance(
+      t.permissible_gmm, static_cast<int>(result.corrections.size()), options.tolerance_shares);
   t.met = true;
   for (std::size_t p = 0; p < result.corrections.size(); ++p) {
     t.present_gmm.push_back(result.corrections[p].unbalance_gmm);
@@ -199,8 +203,8 @@ void fill_corrections(const Readings& readings, const std::vector<detail::Cplx>&
                       SolveResult& result) {
   const int planes = static_cast<int>(add.size());
   for (int p = 0; p < planes; ++p)
-    result.corrections.push_back(
-        detail::make_correction(p + 1, add[static_cast<std::size_t>(p)], readings.correction_radius_mm));
+    result.corrections.push_back(detail::make_correction(p + 1, add[static_cast<std::size_t>(p)],
+                                                         readings.correction_radius_mm));
   if (readings.keep_trial && !readings.runs.empty()) {
     const auto last = detail::run_weights(readings, readings.runs.back(), planes, false);
     for (int p = 0; p < planes; ++p) {
@@ -211,8 +215,8 @@ void fill_corrections(const Readings& readings, const std::vector<detail::Cplx>&
   }
   if (planes == 2) {
     const detail::Cplx s = (add[0] + add[1]) / 2.0, c = (add[0] - add[1]) / 2.0;
-    result.static_couple = StaticCouple{Polar{std::abs(s), angle_deg_of(s)},
-                                        Polar{std::abs(c), angle_deg_of(c)}};
+    result.static_couple =
+        StaticCouple{Polar{std::abs(s), angle_deg_of(s)}, Polar{std::abs(c), angle_deg_of(c)}};
   }
 }
 
@@ -220,10 +224,21 @@ void fill_corrections(const Readings& readings, const std::vector<detail::Cplx>&
 
 SolveResult solve(const Readings& readings, const SolveOptions& options) {
   if (!std::isfinite(readings.correction_radius_mm) || readings.correction_radius_mm < 0)
-    detail::fail_readings(readings, detail::format("correction_radius_mm %g; expected 0 (not given) or a radius above 0",
-                                                   readings.correction_radius_mm));
+    detail::fail_readings(
+        readings,
+        detail::format("correction_radius_mm %g; expected 0 (not given) or a radius above 0",
+                       readings.correction_radius_mm));
   std::optional<InfluenceSet> influence = options.influence;
-  if (!influence && !readings.influence_file.empty()) influence = load_influence(readings.influence_file);
+  if (!influence && !readings.influence_file.empty())
+    influence = load_influence(readings.influence_file);
+  if (influence && readings.correction_radius_mm == 0 && influence->correction_radius_mm > 0) {
+    // Masses at the radius the saved coefficients were fitted for, unless the job gives one.
+    Readings with_radius = readings;
+    with_radius.correction_radius_mm = influence->correction_radius_mm;
+    SolveOptions with_influence = options;
+    with_influence.influence = influence;
+    return solve(with_radius, with_influence);
+  }
 
   SolveResult result;
   result.method = method_name(readings.method);
@@ -231,24 +246,22 @@ SolveResult solve(const Readings& readings, const SolveOptions& options) {
   switch (readings.method) {
     case Method::kTrial:
     case Method::kTwoPlane:
-    case Method::kFit:
-      add = detail::solve_phase(readings, options, influence, result);
-      break;
+    case Method::kFit: add = detail::solve_phase(readings, options, influence, result); break;
     case Method::kFourRun:
       if (influence)
-        result.warnings.push_back("four-run fits its own influence from amplitudes; the saved "
-                                  "influence coefficients were not used");
+        result.warnings.push_back(
+            "four-run fits its own influence from amplitudes; the saved "
+            "influence coefficients were not used");
       add = detail::solve_four_run(readings, options, result);
       break;
     case Method::kStatic:
       if (influence)
-        result.warnings.push_back("the static method needs no influence coefficients; the saved "
-                                  "ones were not used");
+        result.warnings.push_back(
+            "the static method needs no influence coefficients; the saved "
+            "ones were not used");
       add = detail::solve_static(readings, options, result);
       break;
-    case Method::kIndex:
-      add = detail::solve_index(readings, options, influence, result);
-      break;
+    case Method::kIndex: add = detail::solve_index(readings, options, influence, result); break;
   }
   fill_corrections(readings, add, result);
   add_tolerance(options, result);
@@ -269,13 +282,18 @@ SolveResult solve_given(const std::vector<Correction>& corrections, const SolveO
                                               c.plane, sorted.size()));
     for (std::size_t j = 0; j < i; ++j)
       if (sorted[j].plane == c.plane)
-        throw InputError(where + detail::format("plane %d given twice; expected each plane once", c.plane));
+        throw InputError(where +
+                         detail::format("plane %d given twice; expected each plane once", c.plane));
     if (!std::isfinite(c.unbalance_gmm) || c.unbalance_gmm < 0)
-      throw InputError(where + detail::format("unbalance_gmm %g; expected a finite value of 0 or more", c.unbalance_gmm));
+      throw InputError(where +
+                       detail::format("unbalance_gmm %g; expected a finite value of 0 or more",
+                                      c.unbalance_gmm));
     if (!std::isfinite(c.angle_deg))
       throw InputError(where + "angle_deg is not finite; expected degrees");
     if (!std::isfinite(c.radius_mm) || c.radius_mm < 0)
-      throw InputError(where + detail::format("radius_mm %g; expected 0 (not given) or a radius above 0", c.radius_mm));
+      throw InputError(
+          where +
+          detail::format("radius_mm %g; expected 0 (not given) or a radius above 0", c.radius_mm));
   }
   result.corrections.resize(sorted.size());
   for (const Correction& c : sorted) {
@@ -286,10 +304,13 @@ SolveResult solve_given(const std::vector<Correction>& corrections, const SolveO
     result.corrections[static_cast<std::size_t>(c.plane - 1)] = out;
   }
   if (result.corrections.size() == 2) {
-    const auto a = from_polar_deg(result.corrections[0].unbalance_gmm, result.corrections[0].angle_deg);
-    const auto b = from_polar_deg(result.corrections[1].unbalance_gmm, result.corrections[1].angle_deg);
+    const auto a =
+        from_polar_deg(result.corrections[0].unbalance_gmm, result.corrections[0].angle_deg);
+    const auto b =
+        from_polar_deg(result.corrections[1].unbalance_gmm, result.corrections[1].angle_deg);
     const auto s = (a + b) / 2.0, k = (a - b) / 2.0;
-    result.static_couple = StaticCouple{Polar{std::abs(s), angle_deg_of(s)}, Polar{std::abs(k), angle_deg_of(k)}};
+    result.static_couple =
+        StaticCouple{Polar{std::abs(s), angle_deg_of(s)}, Polar{std::abs(k), angle_deg_of(k)}};
   }
   add_tolerance(options, result);
   return result;

@@ -18,8 +18,8 @@ namespace trimwright::solve {
 
 /// What the solver needs beyond the readings (from [machine], [rotor] and [target]).
 struct SolveOptions {
-  double speed_rpm = 0;                  ///< running speed; 0 = unknown (no severity, no tolerance)
-  double rotor_mass_kg = 0;              ///< rotor mass; 0 = unknown (no tolerance, no trial-force check)
+  double speed_rpm = 0;      ///< running speed; 0 = unknown (no severity, no tolerance)
+  double rotor_mass_kg = 0;  ///< rotor mass; 0 = unknown (no tolerance, no trial-force check)
   std::optional<double> grade_mm_s;      ///< ISO 21940-11 grade (parse_grade); none = no verdict
   std::vector<double> tolerance_shares;  ///< fraction of the tolerance per plane; empty = equal
   /// Influence coefficients to use instead of fitting them (and instead of
@@ -29,24 +29,24 @@ struct SolveOptions {
 
 /// A correction in one plane: add this unbalance at this angle.
 struct Correction {
-  int plane = 1;                 ///< 1-based
-  double unbalance_gmm = 0;      ///< g·mm, ≥ 0
-  double angle_deg = 0;          ///< from the reference mark in the job's angle sense, [0, 360)
-  double radius_mm = 0;          ///< where mass_g is placed (Readings::correction_radius_mm; 0 = none)
+  int plane = 1;             ///< 1-based
+  double unbalance_gmm = 0;  ///< g·mm, ≥ 0
+  double angle_deg = 0;      ///< from the reference mark in the job's angle sense, [0, 360)
+  double radius_mm = 0;      ///< where mass_g is placed (Readings::correction_radius_mm; 0 = none)
   std::optional<double> mass_g;  ///< unbalance_gmm / radius_mm, when a radius is given
 };
 
 /// One reading (run × sensor) against the fitted model.
 struct ReadingFit {
-  std::string run;                          ///< the run's name
-  int run_index = 0;                        ///< 0-based position in Readings::runs
-  int sensor = 1;                           ///< 1-based
-  double amplitude = 0;                     ///< measured, reading units
-  std::optional<double> phase_deg;          ///< measured, job's phase sense
-  double fitted_amplitude = 0;              ///< what the fitted model predicts
-  std::optional<double> fitted_phase_deg;   ///< likewise (none for amplitude-only methods)
-  double residual = 0;                      ///< |measured − fitted| (vector difference when phase is known)
-  std::optional<Severity> severity;         ///< velocity RMS and zone (known units and speed)
+  std::string run;                         ///< the run's name
+  int run_index = 0;                       ///< 0-based position in Readings::runs
+  int sensor = 1;                          ///< 1-based
+  double amplitude = 0;                    ///< measured, reading units
+  std::optional<double> phase_deg;         ///< measured, job's phase sense
+  double fitted_amplitude = 0;             ///< what the fitted model predicts
+  std::optional<double> fitted_phase_deg;  ///< likewise (none for amplitude-only methods)
+  double residual = 0;  ///< |measured − fitted| (vector difference when phase is known)
+  std::optional<Severity> severity;  ///< velocity RMS and zone (known units and speed)
 };
 
 /// The vibration the model predicts at a sensor once the correction is added.
@@ -75,25 +75,25 @@ struct AdapterSplit {
 
 /// Static stand: where a run settled against where the fitted unbalance says it should.
 struct SettleFit {
-  std::string run;              ///< the run's name
-  double settle_deg = 0;        ///< measured: rotor angle at the bottom
-  double fitted_deg = 0;        ///< predicted by the fitted unbalance
-  double residual_deg = 0;      ///< signed difference measured − fitted, (−180, 180]
+  std::string run;          ///< the run's name
+  double settle_deg = 0;    ///< measured: rotor angle at the bottom
+  double fitted_deg = 0;    ///< predicted by the fitted unbalance
+  double residual_deg = 0;  ///< signed difference measured − fitted, (−180, 180]
 };
 
 /// The balance-grade verdict.
 struct ToleranceCheck {
-  std::string grade;                       ///< "G6.3"
-  double grade_mm_s = 0;                   ///< 6.3
-  double permissible_gmm = 0;              ///< whole rotor, ISO 21940-11
+  std::string grade;                          ///< "G6.3"
+  double grade_mm_s = 0;                      ///< 6.3
+  double permissible_gmm = 0;                 ///< whole rotor, ISO 21940-11
   std::vector<double> plane_permissible_gmm;  ///< each plane's share
-  std::vector<double> present_gmm;         ///< unbalance on the rotor now, per plane (= correction size)
-  bool met = false;                        ///< every plane within its share
+  std::vector<double> present_gmm;  ///< unbalance on the rotor now, per plane (= correction size)
+  bool met = false;                 ///< every plane within its share
 };
 
 /// Everything the solver found.
 struct SolveResult {
-  std::string method;                 ///< "given", "trial", "four-run", "two-plane", "fit", "static", "index"
+  std::string method;  ///< "given", "trial", "four-run", "two-plane", "fit", "static", "index"
   /// What to add to the rotor as it is now, one per plane (plane order). With keep_trial, the
   /// rotor as it is now carries the last run's weights.
   std::vector<Correction> corrections;
@@ -102,10 +102,10 @@ struct SolveResult {
   std::vector<Correction> combined;
   /// The influence coefficients fitted (ready for save_influence) or used.
   std::optional<InfluenceSet> influence;
-  std::vector<ReadingFit> readings;         ///< every reading against the model
-  double residual_rms = 0;                  ///< RMS of ReadingFit::residual, reading units
-  int redundancy = 0;                       ///< readings beyond the unknowns (0 = exactly determined)
-  std::optional<double> condition_number;   ///< of the influence matrix (two or more planes)
+  std::vector<ReadingFit> readings;  ///< every reading against the model
+  double residual_rms = 0;           ///< RMS of ReadingFit::residual, reading units
+  int redundancy = 0;                ///< readings beyond the unknowns (0 = exactly determined)
+  std::optional<double> condition_number;     ///< of the influence matrix (two or more planes)
   std::optional<StaticCouple> static_couple;  ///< two planes
   std::vector<PredictedVibration> predicted;  ///< per sensor after the correction (phase methods)
   std::optional<double> consistency;        ///< four-run: |(cos φ, sin φ)|, 1 for consistent data

@@ -6,9 +6,8 @@
 // with the stable side Re(e^{−i·s_r}·(U0 + T_r)) > 0. Two runs (without and with a trial)
 // determine U0; more are fitted by least squares. For a trial at 3 o'clock (90° from the heavy
 // spot) that turns the rotor by β this is U = m_t·r_t / tan β. docs/solver.md §6.
-#include <cmath>
-
 #include <Eigen/Dense>
+#include <cmath>
 
 #include "geom/base/angle.hpp"
 #include "geom/solve/conventions.hpp"
@@ -37,13 +36,15 @@ std::vector<Cplx> solve_static(const Readings& readings, const SolveOptions& opt
   for (std::size_t i = 0; i < runs.size(); ++i) {
     validate_weights(readings, i, 1);
     if (!runs[i].settle_angle_deg || !std::isfinite(*runs[i].settle_angle_deg))
-      fail_run(readings, i, "no settle angle; expected the rotor angle (from the reference mark, "
-                            "in the job's angle sense) at the bottom once the rotor came to rest");
+      fail_run(readings, i,
+               "no settle angle; expected the rotor angle (from the reference mark, "
+               "in the job's angle sense) at the bottom once the rotor came to rest");
     any_trial = any_trial || !runs[i].trial.empty();
   }
   if (!any_trial)
-    fail_readings(readings, "no run has a trial weight; expected a run with a trial mass placed "
-                            "at 3 o'clock");
+    fail_readings(readings,
+                  "no run has a trial weight; expected a run with a trial mass placed "
+                  "at 3 o'clock");
 
   // All angles on the rotor in the job's sense; the geometry is the same in either sense.
   const auto n = static_cast<Eigen::Index>(runs.size());
@@ -93,10 +94,12 @@ std::vector<Cplx> solve_static(const Readings& readings, const SolveOptions& opt
     if (!runs[r].trial.empty()) {
       const double turn = angle_between_deg(fitted, angle_deg_of(u0));
       if (turn < kPoorTurnDeg || turn > 90.0 - kPoorTurnDeg)
-        result.warnings.push_back(run_where(readings, r) + format(
-            ": the trial turned the rotor %.1f° from its heavy spot; between %.0f° and %.0f° "
-            "(best near 45°) the result is less sensitive to reading errors and stand friction",
-            turn, kPoorTurnDeg, 90.0 - kPoorTurnDeg));
+        result.warnings.push_back(
+            run_where(readings, r) +
+            format(
+                ": the trial turned the rotor %.1f° from its heavy spot; between %.0f° and %.0f° "
+                "(best near 45°) the result is less sensitive to reading errors and stand friction",
+                turn, kPoorTurnDeg, 90.0 - kPoorTurnDeg));
     }
   }
   result.redundancy = static_cast<int>(n - 2);

@@ -66,7 +66,8 @@ double parse_grade(const std::string& text, const std::string& where) {
   char* end = nullptr;
   const double value = number.empty() ? 0.0 : std::strtod(number.c_str(), &end);
   if (number.empty() || end != number.c_str() + number.size() || !std::isfinite(value))
-    throw InputError(prefix + "not a balance grade; expected a grade such as \"G6.3\" or \"2.5\" (" +
+    throw InputError(prefix +
+                     "not a balance grade; expected a grade such as \"G6.3\" or \"2.5\" (" +
                      grade_list() + ")");
   for (const auto& g : balance_grades())
     if (std::fabs(g.g_mm_s - value) <= 1e-9 * g.g_mm_s) return g.g_mm_s;
@@ -105,8 +106,8 @@ std::vector<double> share_tolerance(double permissible_gmm, int planes,
   if (planes < 1)
     throw InputError("tolerance shared among " + std::to_string(planes) +
                      " planes: expected 1 plane or more");
-  if (shares.empty()) return std::vector<double>(static_cast<std::size_t>(planes),
-                                                 permissible_gmm / planes);
+  if (shares.empty())
+    return std::vector<double>(static_cast<std::size_t>(planes), permissible_gmm / planes);
   if (shares.size() != static_cast<std::size_t>(planes))
     throw InputError("tolerance shares: " + std::to_string(shares.size()) + " given for " +
                      std::to_string(planes) + " planes; expected one per plane");

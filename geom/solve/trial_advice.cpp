@@ -49,7 +49,8 @@ TrialEffect trial_effect(double amplitude0, std::optional<double> phase0_deg, do
   effect.amplitude_change_percent =
       amplitude0 > 0 ? std::fabs(amplitude1 - amplitude0) / amplitude0 * 100.0
                      : (amplitude1 > 0 ? std::numeric_limits<double>::infinity() : 0.0);
-  if (phase0_deg && phase1_deg) effect.phase_change_deg = angle_between_deg(*phase0_deg, *phase1_deg);
+  if (phase0_deg && phase1_deg)
+    effect.phase_change_deg = angle_between_deg(*phase0_deg, *phase1_deg);
   effect.enough = effect.amplitude_change_percent >= kMinAmplitudeChangePercent ||
                   (effect.phase_change_deg && *effect.phase_change_deg >= kMinPhaseChangeDeg);
   return effect;

@@ -27,10 +27,10 @@ inline constexpr double kRiskyAmplitudeRatio = 2.0;
 
 /// A suggested trial weight.
 struct TrialSuggestion {
-  double unbalance_gmm = 0;  ///< trial unbalance, g·mm
-  double mass_g = 0;         ///< trial mass at the given radius, g
-  double force_n = 0;        ///< its centrifugal force at running speed, N
-  double force_fraction = 0; ///< that force over the rotor's weight
+  double unbalance_gmm = 0;   ///< trial unbalance, g·mm
+  double mass_g = 0;          ///< trial mass at the given radius, g
+  double force_n = 0;         ///< its centrifugal force at running speed, N
+  double force_fraction = 0;  ///< that force over the rotor's weight
 };
 
 /// The trial whose centrifugal force at speed_rpm is `force_fraction` of the rotor's weight:
@@ -43,9 +43,9 @@ double centrifugal_force_n(double unbalance_gmm, double speed_rpm);
 
 /// What a trial run changed, seen by one sensor.
 struct TrialEffect {
-  double amplitude_change_percent = 0;   ///< |A1 − A0| / A0 × 100 (A0 = 0: infinite)
+  double amplitude_change_percent = 0;     ///< |A1 − A0| / A0 × 100 (A0 = 0: infinite)
   std::optional<double> phase_change_deg;  ///< smallest angle between the phases, [0, 180]
-  bool enough = false;                   ///< at least 30 % or 30° (the 30/30 rule)
+  bool enough = false;                     ///< at least 30 % or 30° (the 30/30 rule)
 };
 
 /// The change between an original reading (amplitude, optional phase) and a trial reading.

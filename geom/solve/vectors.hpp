@@ -31,8 +31,8 @@ struct SplitWeights {
 /// law of sines: w1 = W·sin(θ2 − θ)/sin(θ2 − θ1), w2 = W·sin(θ − θ1)/sin(θ2 − θ1). Both are
 /// ≥ 0 when θ lies in the sector (less than 180°) from θ1 to θ2. Nothing when the two positions
 /// are in line (the same or opposite angles), where no split exists.
-inline std::optional<SplitWeights> split_between(double amount, double angle_deg,
-                                                 double angle1_deg, double angle2_deg) {
+inline std::optional<SplitWeights> split_between(double amount, double angle_deg, double angle1_deg,
+                                                 double angle2_deg) {
   const double s = std::sin(deg_to_rad(angle2_deg - angle1_deg));
   if (std::fabs(s) < 1e-9) return std::nullopt;
   return SplitWeights{amount * std::sin(deg_to_rad(angle2_deg - angle_deg)) / s,
@@ -85,7 +85,7 @@ inline Polar equal_pair_resultant(double each, double a_deg, double b_deg) {
 /// `angle_deg`; a is the one turned the positive way. Nothing when magnitude > 2·each or
 /// each ≤ 0.
 inline std::optional<std::pair<double, double>> equal_pair_angles(double each, double magnitude,
-                                                                   double angle_deg) {
+                                                                  double angle_deg) {
   if (!(each > 0) || magnitude < 0 || magnitude > 2.0 * each) return std::nullopt;
   const double half_deg = rad_to_deg(std::acos(magnitude / (2.0 * each)));
   return std::make_pair(wrap_deg_360(angle_deg + half_deg), wrap_deg_360(angle_deg - half_deg));

@@ -1,8 +1,9 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Conventions: angle sense and phase sense, checked on published single-plane examples.
+#include "geom/solve/conventions.hpp"
+
 #include <catch2/catch.hpp>
 
-#include "geom/solve/conventions.hpp"
 #include "geom/solve/solve.hpp"
 #include "model_rotor.hpp"
 

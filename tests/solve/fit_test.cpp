@@ -77,7 +77,8 @@ TEST_CASE("fit: noisy readings leave least-squares residuals orthogonal to the r
     std::vector<Cplx> by_plane(3, Cplx(0, 0));
     for (const auto& f : s.readings) {
       if (f.sensor != sensor) continue;
-      const Cplx e = polar_deg(f.amplitude, *f.phase_deg) - polar_deg(f.fitted_amplitude, *f.fitted_phase_deg);
+      const Cplx e =
+          polar_deg(f.amplitude, *f.phase_deg) - polar_deg(f.fitted_amplitude, *f.fitted_phase_deg);
       CHECK(std::abs(e) == Approx(f.residual).margin(1e-12));
       sum += e;
       for (const auto& t : r.runs[static_cast<std::size_t>(f.run_index)].trial)
@@ -112,8 +113,7 @@ TEST_CASE("fit: the trimming loop with a fixture's settings as weights", "[solve
   const Cplx add = total - polar_deg(88.0, 250.0);
   CHECK(s.corrections[0].unbalance_gmm == Approx(std::abs(add)).epsilon(1e-9));
   // The residual unbalance after the last setting, from the last reading and |α|.
-  CHECK(s.corrections[0].unbalance_gmm ==
-        Approx(r.runs.back().amplitude[0] / 0.022).epsilon(1e-9));
+  CHECK(s.corrections[0].unbalance_gmm == Approx(r.runs.back().amplitude[0] / 0.022).epsilon(1e-9));
   CHECK(unbalance_from_reading(r.runs.back().amplitude[0], 0.022) ==
         Approx(std::abs(add)).epsilon(1e-9));
 }
@@ -168,7 +168,8 @@ TEST_CASE("fit: too few runs, too few sensors and unseparated planes are errors"
 
   // Planes 1 and 3 always carry weights in the same proportion.
   r.runs = {m.run("original", {}), m.run("a", {weight(1, 1, 40, 0), weight(3, 2, 40, 0)}),
-            m.run("b", {weight(2, 1, 40, 0)}), m.run("c", {weight(1, 2, 40, 90), weight(3, 4, 40, 90)})};
+            m.run("b", {weight(2, 1, 40, 0)}),
+            m.run("c", {weight(1, 2, 40, 90), weight(3, 4, 40, 90)})};
   CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("do not separate the planes"));
 
   Readings mixed = m.readings(Method::kFit);

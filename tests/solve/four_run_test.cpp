@@ -12,7 +12,8 @@ using trimwright::InputError;
 
 namespace {
 
-Run amplitude_run(const std::string& name, double amplitude, std::vector<TrialWeight> weights = {}) {
+Run amplitude_run(const std::string& name, double amplitude,
+                  std::vector<TrialWeight> weights = {}) {
   Run r;
   r.name = name;
   r.amplitude = {amplitude};
@@ -63,8 +64,7 @@ TEST_CASE("four-run: exact rotors at any three or more positions and trial sizes
     m.alpha = {{polar_deg(0.02, 200.0)}};
     m.angles = angles;
     Readings r = m.readings(Method::kFourRun);
-    r.runs = {strip_phase(m.run("original", {})),
-              strip_phase(m.run("a", {weight(1, 1.0, 80, 10)})),
+    r.runs = {strip_phase(m.run("original", {})), strip_phase(m.run("a", {weight(1, 1.0, 80, 10)})),
               strip_phase(m.run("b", {weight(1, 1.5, 80, 95)})),
               strip_phase(m.run("c", {weight(1, 1.2, 80, 250)}))};
     const SolveResult s = solve(r, {});

@@ -33,13 +33,15 @@ TEST_CASE("given: a known correction gets masses, the split and the grade verdic
   REQUIRE(s.tolerance);
   // G40, 0.72 kg, 3450 rpm: U_per = 1000·40·0.72/Ω = 79.7 g·mm, half per plane (ISO 21940-11
   // formula; halves by default for two planes).
-  CHECK(s.tolerance->plane_permissible_gmm[0] == Approx(1000.0 * 40 * 0.72 / (3450 * 2 * 3.14159265358979 / 60) / 2));
+  CHECK(s.tolerance->plane_permissible_gmm[0] ==
+        Approx(1000.0 * 40 * 0.72 / (3450 * 2 * 3.14159265358979 / 60) / 2));
   CHECK_FALSE(s.tolerance->met);  // 75 > 39.9
 
   b.plane = 2;
   CHECK_THROWS_WITH(solve_given({a, b}, o, "job.toml"), Catch::Contains("plane 2 given twice"));
   b.plane = 1;
   b.unbalance_gmm = -1;
-  CHECK_THROWS_WITH(solve_given({a, b}, o, "job.toml"), Catch::StartsWith("job.toml: correction: unbalance_gmm -1"));
+  CHECK_THROWS_WITH(solve_given({a, b}, o, "job.toml"),
+                    Catch::StartsWith("job.toml: correction: unbalance_gmm -1"));
   CHECK_THROWS_AS(solve_given({}, o), InputError);
 }

@@ -50,7 +50,8 @@ TEST_CASE("index: an exact rotor on an eccentric adapter, with a trial run", "[s
   for (auto reference : {IndexReference::kAdapter, IndexReference::kRotor})
     for (auto angles : {AngleSense::kAgainstRotation, AngleSense::kWithRotation}) {
       // Physical sense: rotor unbalance u (rotor frame), adapter unbalance a (adapter frame).
-      const Cplx u = polar_deg(70.0, 100.0), a = polar_deg(25.0, 310.0), alpha = polar_deg(0.02, 30.0);
+      const Cplx u = polar_deg(70.0, 100.0), a = polar_deg(25.0, 310.0),
+                 alpha = polar_deg(0.02, 30.0);
       auto reading = [&](double index_deg, const std::vector<TrialWeight>& weights) {
         const double psi = angles == AngleSense::kAgainstRotation ? index_deg : -index_deg;
         Cplx rotor = u;

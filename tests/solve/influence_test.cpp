@@ -1,12 +1,12 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Influence-coefficient files: round trip, reuse, and bad files.
-#include <catch2/catch.hpp>
+#include "geom/solve/influence.hpp"
 
+#include <catch2/catch.hpp>
 #include <cstdio>
 #include <fstream>
 
 #include "geom/base/error.hpp"
-#include "geom/solve/influence.hpp"
 #include "geom/solve/solve.hpp"
 #include "model_rotor.hpp"
 
@@ -77,6 +77,9 @@ TEST_CASE("influence: saved and loaded coefficients give the same correction", "
   again.runs = {m.run("new wheel", {})};
   again.influence_file = path;
   const SolveResult s = solve(again, o);
+  // No radius in the job: masses at the radius the coefficients were saved with.
+  CHECK(s.corrections[0].radius_mm == 55);
+  CHECK(s.corrections[0].mass_g.value() == Approx(s.corrections[0].unbalance_gmm / 55));
   for (std::size_t p = 0; p < 2; ++p) {
     const Cplx expected = m.expected_correction(p);
     CHECK(s.corrections[p].unbalance_gmm == Approx(std::abs(expected)).epsilon(1e-9));
@@ -106,7 +109,8 @@ TEST_CASE("influence: bad files are clear errors", "[solve]") {
   CHECK_THROWS_WITH(influence_from_toml(text_magnitude, "a.toml"), Catch::Contains("not a number"));
   CHECK_THROWS_WITH(influence_from_toml("format = \"other\"", "a.toml"), Catch::Contains("format"));
   std::string missing = text.substr(0, text.find("[[coefficient]]"));
-  CHECK_THROWS_WITH(influence_from_toml(missing, "a.toml"), Catch::Contains("coefficient: missing"));
+  CHECK_THROWS_WITH(influence_from_toml(missing, "a.toml"),
+                    Catch::Contains("coefficient: missing"));
 
   // Amplitude-only coefficients load but cannot give a phase correction.
   std::string no_angle = text.substr(0, text.find("angle_deg"));

@@ -38,11 +38,11 @@ inline double angle_diff(double a, double b) {
 /// A rotor: its true unbalance per plane and the influence of each plane at each sensor, both in
 /// the physical sense (weight angles against rotation, phase as lag), g·mm and units per g·mm.
 struct ModelRotor {
-  std::vector<Cplx> unbalance;            // per plane, g·mm
-  std::vector<std::vector<Cplx>> alpha;   // [sensor][plane]
+  std::vector<Cplx> unbalance;           // per plane, g·mm
+  std::vector<std::vector<Cplx>> alpha;  // [sensor][plane]
   PhaseSense phase = PhaseSense::kLag;
   AngleSense angles = AngleSense::kAgainstRotation;
-  double noise = 0;                       // relative amplitude of random reading errors
+  double noise = 0;  // relative amplitude of random reading errors
   mutable std::mt19937 random{12345};
 
   /// A weight as the job writes it (angle in the job's sense) in the physical sense.

@@ -1,7 +1,6 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Static balancing on a knife-edge or roller stand.
 #include <catch2/catch.hpp>
-
 #include <cmath>
 
 #include "geom/base/error.hpp"
@@ -38,8 +37,9 @@ TEST_CASE("static: trial at 3 o'clock gives U = m·r / tan β", "[solve]") {
   Readings r;
   r.method = Method::kStatic;
   r.correction_radius_mm = 50;
-  r.runs = {settled("heavy spot down", heavy_deg),
-            settled("trial at 3 o'clock", heavy_deg + beta_deg, {weight(1, 2.0, 60, heavy_deg + 90)})};
+  r.runs = {
+      settled("heavy spot down", heavy_deg),
+      settled("trial at 3 o'clock", heavy_deg + beta_deg, {weight(1, 2.0, 60, heavy_deg + 90)})};
   const SolveResult s = solve(r, {});
   const double expected = 2.0 * 60 / std::tan(beta_deg * kTestPi / 180);
   CHECK(s.corrections[0].unbalance_gmm == Approx(expected).epsilon(1e-12));
@@ -53,7 +53,10 @@ TEST_CASE("static: trial at 3 o'clock gives U = m·r / tan β", "[solve]") {
 TEST_CASE("static: exact rotors with trials anywhere, fitted over several runs", "[solve]") {
   const Cplx u = polar_deg(130.0, 250.0);
   const std::vector<std::vector<TrialWeight>> trials = {
-      {}, {weight(1, 1.5, 60, 10)}, {weight(1, 1.0, 60, 160)}, {weight(1, 0.5, 60, 300), weight(1, 0.5, 60, 330)}};
+      {},
+      {weight(1, 1.5, 60, 10)},
+      {weight(1, 1.0, 60, 160)},
+      {weight(1, 0.5, 60, 300), weight(1, 0.5, 60, 330)}};
   Readings r;
   r.method = Method::kStatic;
   for (const auto& t : trials) r.runs.push_back(settled("run", settle_of(u, t), t));
@@ -74,7 +77,8 @@ TEST_CASE("static: exact rotors with trials anywhere, fitted over several runs",
   Readings keep;
   keep.method = Method::kStatic;
   keep.keep_trial = true;
-  keep.runs = {settled("down", settle_of(u, {})), settled("trial", settle_of(u, trials[1]), trials[1])};
+  keep.runs = {settled("down", settle_of(u, {})),
+               settled("trial", settle_of(u, trials[1]), trials[1])};
   const SolveResult k = solve(keep, {});
   const Cplx add = -u - polar_deg(90.0, 10.0);
   CHECK(k.corrections[0].unbalance_gmm == Approx(std::abs(add)).epsilon(1e-9));
@@ -87,7 +91,8 @@ TEST_CASE("static: degenerate stand readings", "[solve]") {
   r.source = "job.toml";
   r.runs = {settled("down", 35), settled("trial", 35, {weight(1, 2, 60, 125)})};
   r.runs[1].line = 44;
-  CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("job.toml:44: run \"trial\": the trial changed nothing"));
+  CHECK_THROWS_WITH(solve(r, {}),
+                    Catch::Contains("job.toml:44: run \"trial\": the trial changed nothing"));
 
   // The heavy side would have to be at the top: contradictory.
   r.runs[1].settle_angle_deg = 35 - 40;

@@ -1,9 +1,10 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // ISO 21940-11 permissible residual unbalance and grade parsing.
+#include "geom/solve/tolerance.hpp"
+
 #include <catch2/catch.hpp>
 
 #include "geom/base/error.hpp"
-#include "geom/solve/tolerance.hpp"
 
 using namespace trimwright::solve;
 using trimwright::InputError;
@@ -13,7 +14,8 @@ TEST_CASE("tolerance: permissible residual unbalance against a catalogue check v
   // tooling catalogue, balancing page; references.md).
   CHECK(permissible_unbalance_gmm(6.3, 2.0, 10000) == Approx(12.03).margin(0.005));
   // The 9549 form of the same formula (ISO 21940-11 as quoted in references.md).
-  CHECK(permissible_unbalance_gmm(2.5, 0.72, 3450) == Approx(9549.0 * 2.5 * 0.72 / 3450).epsilon(1e-4));
+  CHECK(permissible_unbalance_gmm(2.5, 0.72, 3450) ==
+        Approx(9549.0 * 2.5 * 0.72 / 3450).epsilon(1e-4));
   // e_per = U_per / M, µm.
   CHECK(permissible_eccentricity_um(6.3, 10000) == Approx(12.03 / 2).margin(0.003));
   CHECK_THROWS_WITH(permissible_unbalance_gmm(6.3, 0, 3450), Catch::Contains("rotor mass 0 kg"));
@@ -28,7 +30,8 @@ TEST_CASE("tolerance: grade strings", "[solve]") {
   CHECK(parse_grade("G0.4", "") == 0.4);
   CHECK(parse_grade("G4000", "") == 4000);
   CHECK_THROWS_WITH(parse_grade("G7", "job.toml:40: target.grade"),
-                    Catch::StartsWith("job.toml:40: target.grade: grade \"G7\": not a grade of ISO 21940-11; expected one of G0.4, G1, G2.5"));
+                    Catch::StartsWith("job.toml:40: target.grade: grade \"G7\": not a grade of ISO "
+                                      "21940-11; expected one of G0.4, G1, G2.5"));
   CHECK_THROWS_WITH(parse_grade("fine", "x"), Catch::Contains("not a balance grade"));
   CHECK_THROWS_WITH(parse_grade("G6.3mm", "x"), Catch::Contains("not a balance grade"));
   CHECK_THROWS_AS(parse_grade("", "x"), InputError);
@@ -46,7 +49,8 @@ TEST_CASE("tolerance: the grade table and its cited rotor types", "[solve]") {
   // G6.3 fans; G1 grinding-machine drives.
   for (const auto& g : grades) {
     if (g.g_mm_s == 6.3) CHECK(std::string(g.rotor_types).find("fans") != std::string::npos);
-    if (g.g_mm_s == 1) CHECK(std::string(g.rotor_types).find("grinding-machine drives") != std::string::npos);
+    if (g.g_mm_s == 1)
+      CHECK(std::string(g.rotor_types).find("grinding-machine drives") != std::string::npos);
     if (g.g_mm_s > 6.3) CHECK(g.from_memory);
   }
 }

@@ -1,11 +1,11 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Trial-weight advice: starting size, the 30/30 rule and risk warnings.
-#include <catch2/catch.hpp>
+#include "geom/solve/trial_advice.hpp"
 
+#include <catch2/catch.hpp>
 #include <cmath>
 
 #include "geom/base/error.hpp"
-#include "geom/solve/trial_advice.hpp"
 
 using namespace trimwright::solve;
 using trimwright::InputError;

@@ -14,8 +14,8 @@ namespace {
 
 ModelRotor single_plane(PhaseSense phase, AngleSense angles) {
   ModelRotor m;
-  m.unbalance = {polar_deg(84.0, 212.0)};             // g·mm
-  m.alpha = {{polar_deg(0.031, 57.0)}};               // mm/s per g·mm
+  m.unbalance = {polar_deg(84.0, 212.0)};  // g·mm
+  m.alpha = {{polar_deg(0.031, 57.0)}};    // mm/s per g·mm
   m.phase = phase;
   m.angles = angles;
   return m;
@@ -95,11 +95,13 @@ TEST_CASE("trial: missing phase, unknown plane, too few runs and bad weights are
 
   Readings no_phase = r;
   no_phase.runs[1].phase_deg = {std::nullopt};
-  CHECK_THROWS_WITH(solve(no_phase, {}), Catch::Contains("job.toml:25: run \"trial\": no phase for sensor 1"));
+  CHECK_THROWS_WITH(solve(no_phase, {}),
+                    Catch::Contains("job.toml:25: run \"trial\": no phase for sensor 1"));
 
   Readings plane = r;
   plane.runs[1].trial[0].plane = 2;
-  CHECK_THROWS_WITH(solve(plane, {}), Catch::Contains("trial weight in plane 2, which does not exist"));
+  CHECK_THROWS_WITH(solve(plane, {}),
+                    Catch::Contains("trial weight in plane 2, which does not exist"));
 
   Readings one = r;
   one.runs.pop_back();
@@ -121,7 +123,8 @@ TEST_CASE("trial: missing phase, unknown plane, too few runs and bad weights are
   recording.runs[1].amplitude.clear();
   recording.runs[1].phase_deg.clear();
   recording.runs[1].recording = "trial.wav";
-  CHECK_THROWS_WITH(solve(recording, {}), Catch::Contains("recording \"trial.wav\" has not been measured"));
+  CHECK_THROWS_WITH(solve(recording, {}),
+                    Catch::Contains("recording \"trial.wav\" has not been measured"));
 }
 
 TEST_CASE("trial: a small trial warns by the 30/30 rule, a large one as risky", "[solve]") {

@@ -57,8 +57,7 @@ TEST_CASE("two-plane: data quoted from an application note", "[solve]") {
   CHECK(*s.condition_number >= 1.0);
 }
 
-TEST_CASE("two-plane: exact rotors in every convention, with the static/couple split",
-          "[solve]") {
+TEST_CASE("two-plane: exact rotors in every convention, with the static/couple split", "[solve]") {
   for (auto phase : {PhaseSense::kLag, PhaseSense::kLead})
     for (auto angles : {AngleSense::kAgainstRotation, AngleSense::kWithRotation}) {
       const ModelRotor m = two_plane_rotor(phase, angles);
@@ -74,9 +73,11 @@ TEST_CASE("two-plane: exact rotors in every convention, with the static/couple s
       // Static/couple: plane 1 = S + C, plane 2 = S − C.
       REQUIRE(s.static_couple);
       const Cplx w1 = m.expected_correction(0), w2 = m.expected_correction(1);
-      CHECK(s.static_couple->static_gmm.magnitude == Approx(std::abs((w1 + w2) / 2.0)).epsilon(1e-9));
+      CHECK(s.static_couple->static_gmm.magnitude ==
+            Approx(std::abs((w1 + w2) / 2.0)).epsilon(1e-9));
       CHECK(angle_diff(s.static_couple->static_gmm.angle_deg, deg_of((w1 + w2) / 2.0)) < 1e-9);
-      CHECK(s.static_couple->couple_gmm.magnitude == Approx(std::abs((w1 - w2) / 2.0)).epsilon(1e-9));
+      CHECK(s.static_couple->couple_gmm.magnitude ==
+            Approx(std::abs((w1 - w2) / 2.0)).epsilon(1e-9));
       CHECK(s.condition_number.value() < 10);
       CHECK(s.warnings.empty());
     }
@@ -119,11 +120,13 @@ TEST_CASE("two-plane: wrong run or sensor counts and a trial that changed nothin
   Readings nothing = r;
   nothing.runs[2].amplitude = nothing.runs[0].amplitude;
   nothing.runs[2].phase_deg = nothing.runs[0].phase_deg;
-  CHECK_THROWS_WITH(solve(nothing, {}), Catch::Contains("run \"trial 2\": the trial changed nothing"));
+  CHECK_THROWS_WITH(solve(nothing, {}),
+                    Catch::Contains("run \"trial 2\": the trial changed nothing"));
 
   Readings plane3 = r;
   plane3.runs[2].trial[0].plane = 3;
-  CHECK_THROWS_WITH(solve(plane3, {}), Catch::Contains("plane 3, which does not exist; expected plane 1 to 2"));
+  CHECK_THROWS_WITH(solve(plane3, {}),
+                    Catch::Contains("plane 3, which does not exist; expected plane 1 to 2"));
 
   Readings same_plane = r;
   same_plane.runs[2].trial[0].plane = 1;  // no run weights plane 2

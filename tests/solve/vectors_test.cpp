@@ -1,8 +1,8 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Weight splitting and equal-mass pairs.
-#include <catch2/catch.hpp>
-
 #include "geom/solve/vectors.hpp"
+
+#include <catch2/catch.hpp>
 
 using namespace trimwright::solve;
 
