@@ -14,11 +14,14 @@ namespace trimwright::kernel {
 struct MassProperties {
   double volume_mm3 = 0;
   Vec3 centroid_mm{0, 0, 0};
-  /// Inertia tensor about the centroid for unit density, mm⁵ (multiply by g/mm³ for g·mm²).
+  /// Inertia tensor about the centroid for unit density, mm⁵ (multiply by g/mm³ for g·mm²):
+  /// diagonal I_xx = ∫(y² + z²) dV …, off-diagonal products of inertia I_xy = −∫xy dV ….
   std::array<std::array<double, 3>, 3> inertia_mm5{};
 };
 
-/// Mass properties of a closed mesh. A mesh with (near) zero volume has centroid (0,0,0).
+/// Mass properties of a closed mesh. An inside-out mesh gives a negative volume. A mesh with
+/// (near) zero volume (|V| ≤ 1e-12 × (largest bounding-box side)³) has centroid (0,0,0) and zero
+/// inertia. Triangles with out-of-range indices are skipped.
 MassProperties mass_properties(const Mesh& mesh);
 
 /// Grams from mm³ and g/cm³.

@@ -45,7 +45,7 @@ Box3 bounding_box(const Mesh& mesh);
 struct Transform3 {
   std::array<std::array<double, 3>, 3> rotation{{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}};
   Vec3 translation{0, 0, 0};
-  /// Rotation by angle_deg about +z (counter-clockwise seen from +z).
+  /// Rotation by angle_deg about +z (counter-clockwise seen from +z); exact for multiples of 90°.
   static Transform3 rotate_z(double angle_deg);
   /// Pure translation.
   static Transform3 translate(const Vec3& t);
@@ -55,10 +55,12 @@ struct Transform3 {
   Vec3 apply(const Vec3& p) const;
 };
 
-/// The mesh with every vertex transformed (a proper rotation keeps triangle orientation).
+/// The mesh with every vertex transformed. A proper rotation keeps triangle orientation; a
+/// reflection (determinant < 0) reverses every triangle so that normals stay outward.
 Mesh transformed(const Mesh& mesh, const Transform3& t);
 
-/// The two meshes as one (disjoint components; indices of `b` shifted).
+/// The two meshes as one (disjoint components; indices of `b` shifted). Throws InternalError if
+/// the vertex count exceeds 32-bit indices.
 Mesh merged(const Mesh& a, const Mesh& b);
 
 }  // namespace trimwright::kernel

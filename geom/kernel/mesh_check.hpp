@@ -32,7 +32,11 @@ struct MeshInspection {
   }
 };
 
-/// Inspect a mesh. `check_self_intersection` runs the (slower) exact triangle–triangle test.
+/// Inspect a mesh (any soup: vertices at exactly equal positions are merged first, so a file
+/// that repeats vertices per facet is read as connected). Triangles with an index out of range or
+/// a non-finite vertex count as degenerate and are left out of the other checks.
+/// `check_self_intersection` runs the (slower) exact triangle–triangle test; triangles may share
+/// vertices and edges, and touching anywhere else counts as intersecting.
 MeshInspection inspect_mesh(const Mesh& mesh, bool check_self_intersection = true);
 
 }  // namespace trimwright::kernel

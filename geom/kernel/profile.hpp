@@ -32,7 +32,9 @@ struct Box2 {
 };
 
 /// A closed planar region (possibly several pieces, with holes), bounded by exact segments and
-/// circular arcs. Values are immutable and cheap to copy (shared implementation).
+/// circular arcs. Values are immutable and cheap to copy (shared implementation); a value must not
+/// be used from two threads at once (exact numbers are evaluated lazily). Invalid construction
+/// arguments (non-finite, radius ≤ 0, fewer than 3 vertices) throw InternalError.
 class Profile {
  public:
   /// The empty region.
@@ -46,13 +48,16 @@ class Profile {
   /// Full disc: centre (mm), radius_mm > 0.
   static Profile disc(Vec2 centre, double radius_mm);
   /// Obround (stadium): all points within radius_mm of the segment a–b. a == b gives a disc.
+  /// The axis is built on an exact rational direction: b is met exactly for axis-parallel slots and
+  /// within ~1e-16 relative otherwise.
   static Profile obround(Vec2 a, Vec2 b, double radius_mm);
   /// Simple polygon from its vertices (either orientation; no self-intersection).
   static Profile polygon(const std::vector<Vec2>& points);
-  /// Rectangle width × height (mm) centred at `centre`, turned by angle_deg counter-clockwise.
+  /// Rectangle width × height (mm) centred at `centre`, turned by angle_deg counter-clockwise
+  /// (width along the turned x axis). Exactly rectangular (rational rotation).
   static Profile rectangle(Vec2 centre, double width_mm, double height_mm, double angle_deg = 0);
   /// Annular sector between radii r_in < r_out around `centre`, from a0_deg to a1_deg
-  /// counter-clockwise (a1 > a0, span ≤ 360).
+  /// counter-clockwise (a1 > a0, span ≤ 360). r_in = 0 gives a pie slice, a span of 360 an annulus.
   static Profile annular_sector(Vec2 centre, double r_in_mm, double r_out_mm, double a0_deg,
                                 double a1_deg);
 
@@ -77,8 +82,10 @@ class Profile {
 
   /// Polygonal regions for meshing. Each arc becomes a polyline whose chord error is at most
   /// chord_mm and whose enclosed area equals the arc's segment area, so every full circle keeps
-  /// its exact area and a symmetric feature keeps its exact centroid. Outer rings are
-  /// counter-clockwise, holes clockwise.
+  /// its exact area and a symmetric feature keeps its exact centroid (an unsymmetric arc piece
+  /// moves its first moment slightly: ~3e-5 mm of centroid at chord 0.01 mm on a 30 mm disc).
+  /// Outer rings are counter-clockwise, holes clockwise. Deterministic: every ring starts at its
+  /// lexicographically smallest vertex, holes and regions are sorted by that vertex.
   std::vector<Region> polygonize(double chord_mm) const;
 
   /// Private implementation (CGAL); defined only in geom/kernel/*.cpp.
@@ -90,6 +97,8 @@ class Profile {
 };
 
 /// Exact area moments of polygonal rings under the even-odd rule (shoelace / Green's theorem).
+/// Rings may have any orientation but must not cross each other; a ring's sign comes from the
+/// number of rings around it.
 AreaMoments polygon_moments(const std::vector<Ring>& rings);
 
 }  // namespace trimwright::kernel
