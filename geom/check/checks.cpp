@@ -20,6 +20,11 @@ using fixture::Part;
 
 using Point2 = std::array<double, 2>;
 
+/// Lengths within this of their limit count as meeting it: a design sized exactly to a limit
+/// must not fail on floating-point rounding. A tenth of a micrometre is far below any printer's
+/// resolution.
+constexpr double kLengthTolerance_mm = 1e-4;
+
 CheckResult result(std::string name, double value, double limit, std::string unit, bool ok,
                    std::string note, std::string subject = {}) {
   CheckResult r;
@@ -329,7 +334,7 @@ std::optional<CheckResult> check_thread(const Design& d, const Context& c) {
                               under ? "the disc under the nut" : "the fixture, washer and nut",
                               stack));
   const double free = *c.free_thread_mm;
-  const bool ok = free >= stack;
+  const bool ok = free >= stack - kLengthTolerance_mm;
   std::string what = under ? fmt::format("the disc under the nut pushes {} out by {:.1f} mm", whose, stack)
                            : fmt::format("fixture, washer and nut take {:.1f} mm", stack);
   std::string note = fmt::format("free thread {:.1f} mm; {}", free, what);
@@ -366,7 +371,7 @@ CheckResult check_envelope(const Design& d, const Context& c) {
   if (!positive(swept))
     return result("envelope", swept, *limit, "mm", false,
                   "the fixture's swept diameter is not known to the checks");
-  const bool ok = swept <= *limit;
+  const bool ok = swept <= *limit + kLengthTolerance_mm;
   std::string note = fmt::format("swept Ø{:.1f} mm within Ø{:.1f} mm ({})", swept, *limit, basis);
   if (!ok)
     note = fmt::format("swept Ø{:.1f} mm exceeds Ø{:.1f} mm ({}): fix: a smaller max_diameter_mm "
@@ -421,7 +426,7 @@ void check_printability(const Design& d, const Context& c, std::vector<CheckResu
   if (const Part* p = thinnest(d, [](const Part& q) { return q.shape.min_wall_mm; },
                                [](const Part&) { return true; })) {
     double v = p->shape.min_wall_mm, lim = 2 * c.nozzle_mm;
-    bool ok = v >= lim;
+    bool ok = v >= lim - kLengthTolerance_mm;
     std::string note = fmt::format("{}: thinnest wall {:.2f} mm, at least 2 lines of the {:g} mm nozzle",
                                    p->name, v, c.nozzle_mm);
     if (!ok) note += ": fix: a smaller nozzle, or a design with thicker walls (larger disc, narrower slot)";
@@ -430,7 +435,7 @@ void check_printability(const Design& d, const Context& c, std::vector<CheckResu
   auto engraved = [](const Part& q) { return q.shape.engraving_depth_mm > 0; };
   if (const Part* p = thinnest(d, [](const Part& q) { return q.shape.min_feature_mm; }, engraved)) {
     double v = p->shape.min_feature_mm, lim = c.nozzle_mm;
-    bool ok = v >= lim;
+    bool ok = v >= lim - kLengthTolerance_mm;
     std::string note = fmt::format("{}: narrowest engraved stroke {:.2f} mm against the {:g} mm nozzle",
                                    p->name, v, c.nozzle_mm);
     if (!ok) note += ": fix: a smaller nozzle; the marks would not print";
@@ -438,7 +443,7 @@ void check_printability(const Design& d, const Context& c, std::vector<CheckResu
   }
   if (const Part* p = thinnest(d, [](const Part& q) { return q.shape.engraving_depth_mm; }, engraved)) {
     double v = p->shape.engraving_depth_mm, lim = 2 * c.layer_mm;
-    bool ok = v >= lim;
+    bool ok = v >= lim - kLengthTolerance_mm;
     std::string note = fmt::format("{}: engraving {:.2f} mm deep, at least 2 layers of {:g} mm",
                                    p->name, v, c.layer_mm);
     if (!ok) note += ": fix: thinner layers; the marks would be lost";
@@ -447,7 +452,7 @@ void check_printability(const Design& d, const Context& c, std::vector<CheckResu
   if (const Part* p = thinnest(d, [](const Part& q) { return q.shape.pocket_cover_mm; },
                                [](const Part& q) { return q.shape.pocket_cover_mm > 0; })) {
     double v = p->shape.pocket_cover_mm, lim = 3 * c.layer_mm;
-    bool ok = v >= lim;
+    bool ok = v >= lim - kLengthTolerance_mm;
     std::string note = fmt::format("{}: {:.2f} mm printed over the insert pockets, at least 3 layers of {:g} mm",
                                    p->name, v, c.layer_mm);
     if (!ok) note += ": fix: thinner layers or a thicker cover; a thin cover can sag or split";

@@ -409,3 +409,16 @@ TEST_CASE("check: each result says which side of its limit is safe", "[check]") 
     CHECK(r.ok == (r.at_least ? r.value >= r.limit : r.value <= r.limit));
   }
 }
+
+TEST_CASE("check: a length sized exactly to its limit is not failed by rounding", "[check]") {
+  fixture::Design d = disc();
+  d.parts[0].shape.min_wall_mm = 0.8 - 1e-9;  // two 0.4 mm lines, as computed with rounding
+  d.swept_diameter_mm = 100 + 1e-9;           // the whole room
+  auto rs = run_checks(d, grinder());
+  CHECK(find(rs, "print-wall")->ok);
+  CHECK(find(rs, "envelope")->ok);
+  d.parts[0].shape.min_wall_mm = 0.79;  // a real shortfall still fails
+  d.swept_diameter_mm = 100.01;
+  rs = run_checks(d, grinder());
+  CHECK(blocking_failures(rs) == Names{"envelope", "print-wall"});
+}
