@@ -110,6 +110,7 @@ struct ChartCheck {
   bool ok = true;         ///< the check passed
   bool accepted = false;  ///< failed, and the user accepted it in `checks.accept`
   std::string note;       ///< one line
+  std::string subject;    ///< the part or insert it concerns; empty: the whole fixture
 };
 
 /// An extra angle marked on the template and the polar diagram (e.g. each disc of a disc pair).

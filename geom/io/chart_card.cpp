@@ -600,7 +600,7 @@ class Card {
       const ChartCheck& c = d_.checks[i];
       const std::string unit = c.unit.empty() ? "" : " " + c.unit;
       Row r;
-      r.cells[0] = c.name;
+      r.cells[0] = c.subject.empty() ? c.name : c.name + " (" + c.subject + ")";
       r.cells[1] = std::isfinite(c.value) ? format_significant(c.value) + unit : kDash;
       r.cells[2] = std::isfinite(c.limit)
                        ? (c.kind == LimitKind::kAtMost ? "\xE2\x89\xA4 " : "\xE2\x89\xA5 ") +
@@ -798,12 +798,27 @@ CardFit fit_card(cairo_t* measure, const ChartData& data, const ChartOptions& op
     Card card(pen, data, options, c);
     return card.run() <= content_limit(pen, options, c.scale);
   };
-  // Largest type scale that fits, in 2 % steps.
-  for (double s = 1.0; s >= kMinScale - 1e-9; s -= 0.02) {
-    f.scale = s;
-    if (fits(f)) return f;
-  }
+  // Largest type scale that fits, in 2 % steps from 1 down to kMinScale; the height grows
+  // with the scale, so the search bisects.
+  const auto scale_of = [](int k) { return 1.0 - 0.02 * k; };
+  const int k_min = static_cast<int>(std::lround((1.0 - kMinScale) / 0.02));
+  f.scale = 1.0;
+  if (fits(f)) return f;
   f.scale = kMinScale;
+  if (fits(f)) {
+    int lo = 0, hi = k_min;  // scale_of(lo) does not fit, scale_of(hi) does
+    while (hi - lo > 1) {
+      const int mid = (lo + hi) / 2;
+      f.scale = scale_of(mid);
+      if (fits(f)) {
+        hi = mid;
+      } else {
+        lo = mid;
+      }
+    }
+    f.scale = scale_of(hi);
+    return f;
+  }
   // Still too long: trim lists, each to the most that fits, in this order: the table (it is in
   // chart.csv), passing checks (in the report), steps, warnings, cautions.
   std::size_t CardFit::*order[] = {&CardFit::table_rows, &CardFit::checks, &CardFit::steps,

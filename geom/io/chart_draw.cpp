@@ -170,19 +170,28 @@ std::vector<std::string> Pen::wrap(const std::string& text, double width_mm) con
 
 std::string Pen::ellipsize(const std::string& text, double width_mm) const {
   if (width(text) <= width_mm + kFitSlackMm) return text;
-  // Longest prefix (whole characters) that still fits with the ellipsis.
-  std::string best;
-  std::size_t i = 0;
-  while (i < text.size()) {
-    const std::size_t next = i + utf8_char_length(text, i);
-    const std::string prefix = text.substr(0, next);
-    if (width(prefix + kEllipsis) > width_mm) break;
-    best = prefix;
-    i = next;
+  // Longest prefix (whole characters) that still fits with the ellipsis, by bisection over
+  // the character boundaries.
+  std::vector<std::size_t> ends;
+  for (std::size_t i = 0; i < text.size(); i += utf8_char_length(text, i)) {
+    ends.push_back(i + utf8_char_length(text, i));
   }
-  while (!best.empty() && best.back() == ' ') best.pop_back();
-  if (width(best + kEllipsis) > width_mm) return std::string();
-  return best + kEllipsis;
+  const auto candidate = [&](std::size_t n) {  // the first n characters and "…"
+    std::string p = text.substr(0, n == 0 ? 0 : ends[n - 1]);
+    while (!p.empty() && p.back() == ' ') p.pop_back();
+    return p + kEllipsis;
+  };
+  std::size_t lo = 0, hi = ends.size();
+  while (lo < hi) {
+    const std::size_t mid = (lo + hi + 1) / 2;
+    if (width(candidate(mid)) <= width_mm + kFitSlackMm) {
+      lo = mid;
+    } else {
+      hi = mid - 1;
+    }
+  }
+  const std::string out = candidate(lo);
+  return width(out) <= width_mm + kFitSlackMm ? out : std::string();
 }
 
 FittedText fit_text(Pen& pen, const std::string& text, Font font, double width_mm,

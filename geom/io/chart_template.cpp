@@ -68,9 +68,10 @@ TemplateGeometry template_geometry(const ChartData& data, Paper paper) {
   g.flange_partial = r_flange > g.outer_radius_mm;
   // 1° ticks while they stay at least 0.5 mm apart on the rim.
   g.tick_step_deg = g.outer_radius_mm * kPi / 180.0 >= 0.5 ? 1 : 5;
-  // Numbers every 10° while 8.5 mm apart on their circle, otherwise every 30°.
+  // Numbers every 10° while 7 mm apart on their circle (a three-digit number is 5 mm wide),
+  // otherwise every 30°.
   const double r_numbers = g.outer_radius_mm - kTickLong - 1.0 - kNumberSizeMm / 2;
-  g.number_step_deg = r_numbers * deg_to_rad(10) >= 8.5 ? 10 : 30;
+  g.number_step_deg = r_numbers * deg_to_rad(10) >= 7.0 ? 10 : 30;
   g.ref_mark_inner_mm = r_hole + 2.5;
   g.ref_mark_width_mm = 0.8;
   return g;
@@ -142,6 +143,21 @@ void mark_label(Pen& pen, double cx, double cy, double phi, double side, double 
   pen.text(box.x + w / 2, box.y + asc, l1, Align::kCentre);
   pen.set_font(Font{size});
   pen.text(box.x + w / 2, box.y + asc + lh, l2, Align::kCentre);
+}
+
+// A one-line label at page angle phi by the circle of radius r, set just outside the point
+// (outward) or just inside it, in the selected font.
+void circle_label(Pen& pen, double cx, double cy, double r, double phi, bool outward,
+                  const std::string& text) {
+  const PagePoint p = polar_point(cx, cy, r, phi);
+  const double sn = std::sin(deg_to_rad(phi)), cs = std::cos(deg_to_rad(phi));
+  const double out = outward ? 1.0 : -1.0;  // +1: the text lies away from the centre
+  if (std::fabs(sn) > 0.5) {
+    pen.text(p.x, p.y + 0.35 * pen.ascent(), text, sn * out > 0 ? Align::kLeft : Align::kRight);
+  } else {
+    const bool above = cs * out > 0;  // the text's box lies above the point
+    pen.text(p.x, above ? p.y - pen.descent() : p.y + pen.ascent(), text, Align::kCentre);
+  }
 }
 
 void radial_line(cairo_t* cr, double cx, double cy, double r0, double r1, double phi, double w) {
@@ -254,19 +270,22 @@ void draw_template(cairo_t* cr, const ChartData& data, const ChartOptions& optio
   mark_label(pen, cx, cy, 0, freer_side(0, taken), r_inner_labels, r_inner_labels, r_floor,
              "0\xC2\xB0 = reference mark", "", kInk, 2.8);
 
-  // The correction and any further marks.
+  // The correction and any further marks, their lines broken where the numbers are.
+  const double gap_half = 0.8 * kNumberSizeMm;
   const double dash2[] = {1.6, 1.0};
   for (const auto& m : data.marks) {
     const double phi = page_angle_deg(m.angle_deg, rot, data.sense);
     pen.colour(kDark);
     cairo_set_dash(cr, dash2, 2, 0);
-    radial_line(cr, cx, cy, g.hole_radius_mm + 2.5, ro, phi, 0.35);
+    radial_line(cr, cx, cy, g.hole_radius_mm + 2.5, r_num - gap_half, phi, 0.35);
+    radial_line(cr, cx, cy, r_num + gap_half, ro, phi, 0.35);
     cairo_set_dash(cr, nullptr, 0, 0);
     mark_label(pen, cx, cy, phi, freer_side(phi, taken), r_inner_labels - 12.0, r_inner_labels,
                r_floor, m.label, format_angle(m.angle_deg), kDark, 2.6);
   }
   pen.colour(kAccent);
-  radial_line(cr, cx, cy, g.hole_radius_mm + 2.5, ro, phi_c, 0.6);
+  radial_line(cr, cx, cy, g.hole_radius_mm + 2.5, r_num - gap_half, phi_c, 0.6);
+  radial_line(cr, cx, cy, r_num + gap_half, ro, phi_c, 0.6);
   {
     const PagePoint tip = polar_point(cx, cy, ro, phi_c);
     const double t = deg_to_rad(phi_c);
@@ -288,11 +307,19 @@ void draw_template(cairo_t* cr, const ChartData& data, const ChartOptions& optio
   curved_arrow(cr, cx, cy, r_rot, rot_cw ? arc_centre - half_span : arc_centre + half_span,
                rot_cw ? arc_centre + half_span : arc_centre - half_span, 0.45, 2.6);
   {
-    // The label inside the arc: beside it on the left and right, under or over it at the poles.
+    // The label beside the arc: on the side with room for it, toward the centre if possible.
     pen.set_font(Font{2.6, true});
+    const double lw = pen.width("rotation");
     const double sn = std::sin(deg_to_rad(arc_centre));
-    const PagePoint p = polar_point(cx, cy, r_rot - (std::fabs(sn) > 0.5 ? 2.0 : 4.5), arc_centre);
-    const Align a = sn > 0.5 ? Align::kRight : sn < -0.5 ? Align::kLeft : Align::kCentre;
+    PagePoint p{0, 0};
+    Align a = Align::kCentre;
+    if (std::fabs(sn) > 0.5) {
+      const bool inside = r_rot - 2.0 - lw >= g.hole_radius_mm + 3.5;
+      p = polar_point(cx, cy, inside ? r_rot - 2.0 : r_rot + 2.0, arc_centre);
+      a = (sn > 0) == inside ? Align::kRight : Align::kLeft;
+    } else {
+      p = polar_point(cx, cy, r_rot - 4.5, arc_centre);
+    }
     pen.text(p.x, p.y + 0.35 * pen.ascent(), "rotation", a);
   }
 
@@ -302,16 +329,19 @@ void draw_template(cairo_t* cr, const ChartData& data, const ChartOptions& optio
   for (double phi : {90.0, 180.0, 270.0}) {
     radial_line(cr, cx, cy, g.hole_radius_mm + 0.8, g.hole_radius_mm + 2.5, phi, 0.2);
   }
+  // Their labels go where no mark line or the rotation arrow runs.
+  taken.push_back(arc_centre);
+  const std::vector<double> spots = {180, 135, 225, 90, 270, 45, 315};
   pen.colour(kDark);
   pen.set_font(Font{2.2});
-  pen.text(cx, cy + g.hole_radius_mm + 5.0,
-           fmt::format("cut out \xC3\x98{}", format_trimmed(data.spindle_diameter_mm, 3)),
-           Align::kCentre);
+  const double hole_phi = farthest_candidate(taken, spots);
+  circle_label(pen, cx, cy, g.hole_radius_mm + 3.0, hole_phi, true,
+               fmt::format("cut out \xC3\x98{}", format_trimmed(data.spindle_diameter_mm, 3)));
   if (g.flange_radius_mm > 0 && !g.flange_partial) {
+    taken.push_back(hole_phi);
     pen.colour(kGrey);
-    pen.text(cx, cy + g.flange_radius_mm - 1.6,
-             fmt::format("flange \xC3\x98{}", format_trimmed(data.flange_diameter_mm, 2)),
-             Align::kCentre);
+    circle_label(pen, cx, cy, g.flange_radius_mm - 1.0, farthest_candidate(taken, spots), false,
+                 fmt::format("flange \xC3\x98{}", format_trimmed(data.flange_diameter_mm, 2)));
   }
   if (g.rotor_radius_mm > 0) {
     pen.colour(kGrey);

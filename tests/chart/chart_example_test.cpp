@@ -3,6 +3,8 @@
 //   <build>/chart-example/slide-disc/  chart.pdf, chart.svg, chart.png (page 1 at 150 dpi),
 //                                      page-2.png (the template, rendered by pdftoppm)
 //   <build>/chart-example/disc-pair-letter/  the same for a disc pair on US letter, cw rotation
+//   <build>/chart-example/clamp-weights/     fixed positions (dots on the diagram), angles
+//                                            counted with rotation
 #include <catch2/catch.hpp>
 #include <fmt/core.h>
 
@@ -58,4 +60,28 @@ TEST_CASE("chart: a disc-pair example on letter paper is written for inspection"
   d.table.highlight_row.reset();
   d.warnings.clear();
   write_example(d, Paper::kLetter, example_dir("disc-pair-letter"));
+}
+
+TEST_CASE("chart: a clamp-weights example with fixed positions is written for inspection",
+          "[chart]") {
+  ChartData d = slide_disc_example();
+  d.title = "Pulley, 4-groove";
+  d.subtitle = "clamp-weights \xC2\xB7 PETG \xC2\xB7 on the 100 mm rim \xC2\xB7 1725 rpm";
+  d.headline = "Weights at 190\xC2\xB0 and 235\xC2\xB0 on the rim";
+  d.setting = {{"weight 1", "190", "\xC2\xB0"}, {"weight 2", "235", "\xC2\xB0"}};
+  d.sense = AngleSense::kWithRotation;
+  d.correction.unbalance_gmm = 75;
+  d.correction.angle_deg = 212;
+  d.reach = {};
+  for (int a = 0; a < 360; a += 45) {
+    d.reach.points.push_back({40.0, static_cast<double>(a), ""});
+    d.reach.points.push_back({80.0, static_cast<double>(a) + 22.5, ""});
+  }
+  d.rotor_diameter_mm = 100;
+  d.flange_diameter_mm = 0;
+  d.spindle_diameter_mm = 19.05;
+  d.marks = {{190, "weight 1"}, {235, "weight 2"}};
+  d.correction_mark_label = "resultant";
+  d.checks[1].subject = "weight 1";
+  write_example(d, Paper::kA4, example_dir("clamp-weights"));
 }

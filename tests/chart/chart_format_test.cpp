@@ -145,7 +145,7 @@ TEST_CASE("chart: a small template numbers every 30 degrees", "[chart]") {
   d.spindle_diameter_mm = 8;
   const TemplateGeometry g = template_geometry(d, Paper::kA4);
   CHECK(g.outer_radius_mm == Approx(45.0));  // the smallest useful ring
-  // Numbers 10° apart would sit 6.6 mm apart on their circle: too close, so every 30°.
+  // Numbers 10° apart would sit 6.6 mm apart on their circle (under 7 mm): every 30° instead.
   CHECK(g.number_step_deg == 30);
   CHECK(g.tick_step_deg == 1);
 }

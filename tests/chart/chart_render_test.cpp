@@ -64,7 +64,7 @@ int dark_pixels_near_edge(const Gray& g, double band_mm) {
   int dark = 0;
   for (int y = 0; y < g.height; ++y) {
     for (int x = 0; x < g.width; ++x) {
-      const double mx = g.mm_of(x), my = g.mm_of(y);
+      const double mx = g.mm_x(x), my = g.mm_y(y);
       const double wmm = g.width * 25.4 / g.dpi, hmm = g.height * 25.4 / g.dpi;
       const bool edge = mx < band_mm || my < band_mm || mx > wmm - band_mm || my > hmm - band_mm;
       if (edge && g.at(x, y) < 250) ++dark;
@@ -159,9 +159,10 @@ TEST_CASE("chart: the scale bar measures 100 mm on the page (pdftoppm at 600 dpi
   const ChartData d = slide_disc_example();
   for (Paper paper : {Paper::kA4, Paper::kLetter}) {
     const Written w = write(d, options(paper), dir, paper_name(paper));
-    const Gray g = render_page(w.pdf, 2, 600, dir + paper_name(paper) + "-p2");
     const TemplateGeometry geo = template_geometry(d, paper);
-    const int row = g.px_of(geo.bar_y_mm + geo.bar_height_mm / 2);
+    const Crop crop{geo.bar_x_mm - 5, geo.bar_y_mm - 6, kScaleBarMm + 10, 10};
+    const Gray g = render_page(w.pdf, 2, 600, dir + paper_name(paper) + "-p2", &crop);
+    const int row = g.px_y(geo.bar_y_mm + geo.bar_height_mm / 2);
     Run bar;
     for (const Run& r : row_runs(g, row)) {
       if (r.length() > bar.length()) bar = r;
@@ -169,9 +170,9 @@ TEST_CASE("chart: the scale bar measures 100 mm on the page (pdftoppm at 600 dpi
     const double length_mm = bar.length() * 25.4 / g.dpi;
     INFO(paper_name(paper) << ": bar " << length_mm << " mm");
     CHECK(std::fabs(length_mm - kScaleBarMm) <= 0.1);
-    CHECK(std::fabs(bar.first * 25.4 / g.dpi - geo.bar_x_mm) <= 0.1);
+    CHECK(std::fabs(g.edge_mm_x(bar.first) - geo.bar_x_mm) <= 0.1);
     // Its 10 mm ticks: 11 dark runs in a row just above the bar, 10 mm apart.
-    const int tick_row = g.px_of(geo.bar_y_mm - 1.0);
+    const int tick_row = g.px_y(geo.bar_y_mm - 1.0);
     std::vector<Run> ticks;
     for (const Run& r : row_runs(g, tick_row)) {
       if (r.last >= bar.first - 10 && r.first <= bar.last + 10) ticks.push_back(r);
@@ -195,9 +196,11 @@ TEST_CASE("chart: the template's hole has the spindle's diameter and 0° is at t
     d.spindle_diameter_mm = spindle;
     const std::string stem = fmt::format("hole-{}", spindle);
     const Written w = write(d, options(Paper::kA4), dir, stem);
-    const Gray g = render_page(w.pdf, 2, 600, dir + stem + "-p2");
     const TemplateGeometry geo = template_geometry(d, Paper::kA4);
-    const int cx = g.px_of(geo.centre_x_mm), cy = g.px_of(geo.centre_y_mm);
+    const double ro = geo.outer_radius_mm;
+    const Crop crop{geo.centre_x_mm - ro, geo.centre_y_mm - ro, 2 * ro, 2 * ro};
+    const Gray g = render_page(w.pdf, 2, 600, dir + stem + "-p2", &crop);
+    const int cx = g.px_x(geo.centre_x_mm), cy = g.px_y(geo.centre_y_mm);
     REQUIRE_FALSE(g.dark(cx, cy));  // the hole is empty
 
     const auto closest = [](const std::vector<Run>& runs, int centre, Run* before, Run* after) {
@@ -221,14 +224,14 @@ TEST_CASE("chart: the template's hole has the spindle's diameter and 0° is at t
                     << ", vertical " << (bottom.mid() - top.mid()) * px);
     CHECK(std::fabs((right.mid() - left.mid()) * px - spindle) <= 0.1);
     CHECK(std::fabs((bottom.mid() - top.mid()) * px - spindle) <= 0.1);
-    const double centre_x = g.mm_of(0.5 * (left.mid() + right.mid()));
+    const double centre_x = g.mm_x(0.5 * (left.mid() + right.mid()));
     CHECK(centre_x == Approx(geo.centre_x_mm).margin(0.1));
 
     // The reference mark: a 0.8 mm bar on the vertical through the centre, straight up, at
     // three radii between the hole and the rim.
     for (double r : {geo.ref_mark_inner_mm + 1.5, geo.flange_radius_mm + 4.0,
                      geo.outer_radius_mm - 4.5}) {  // just inside the wedge at the rim
-      const int row = g.px_of(geo.centre_y_mm - r);
+      const int row = g.px_y(geo.centre_y_mm - r);
       Run mark;
       bool found = false;
       for (const Run& run_ : row_runs(g, row)) {
@@ -240,7 +243,7 @@ TEST_CASE("chart: the template's hole has the spindle's diameter and 0° is at t
       INFO("radius " << r << " mm");
       REQUIRE(found);
       CHECK(mark.length() * px == Approx(geo.ref_mark_width_mm).margin(0.1));
-      CHECK(g.mm_of(mark.mid()) == Approx(centre_x).margin(0.1));
+      CHECK(g.mm_x(mark.mid()) == Approx(centre_x).margin(0.1));
     }
   }
 }

@@ -206,13 +206,24 @@ std::string read_file(const std::string& path) {
   return ss.str();
 }
 
-int Gray::px_of(double mm) const {
-  return static_cast<int>(std::floor(mm * dpi / 25.4));
-}
+int Gray::px_x(double mm) const { return static_cast<int>(std::floor(mm * dpi / 25.4)) - x0_px; }
 
-Gray render_page(const std::string& pdf, int page, int dpi, const std::string& out_prefix) {
-  const std::string cmd = fmt::format("pdftoppm -gray -r {} -f {} -l {} -singlefile '{}' '{}'",
-                                      dpi, page, page, pdf, out_prefix);
+int Gray::px_y(double mm) const { return static_cast<int>(std::floor(mm * dpi / 25.4)) - y0_px; }
+
+Gray render_page(const std::string& pdf, int page, int dpi, const std::string& out_prefix,
+                 const Crop* crop) {
+  std::string region;
+  int x0 = 0, y0 = 0;
+  if (crop) {
+    const auto px = [dpi](double mm) { return static_cast<int>(std::floor(mm * dpi / 25.4)); };
+    x0 = px(crop->x_mm);
+    y0 = px(crop->y_mm);
+    region = fmt::format(" -x {} -y {} -W {} -H {}", x0, y0, px(crop->w_mm) + 1,
+                         px(crop->h_mm) + 1);
+  }
+  const std::string cmd =
+      fmt::format("pdftoppm -gray -r {} -f {} -l {}{} -singlefile '{}' '{}'", dpi, page, page,
+                  region, pdf, out_prefix);
   if (run(cmd) != 0) throw std::runtime_error("pdftoppm failed: " + cmd);
   const std::string bytes = read_file(out_prefix + ".pgm");
   // Binary PGM: "P5" <w> <h> <maxval> then one byte per pixel.
@@ -228,6 +239,8 @@ Gray render_page(const std::string& pdf, int page, int dpi, const std::string& o
   g.width = w;
   g.height = h;
   g.dpi = dpi;
+  g.x0_px = x0;
+  g.y0_px = y0;
   const std::size_t n = static_cast<std::size_t>(w) * static_cast<std::size_t>(h);
   if (bytes.size() < offset + n) throw std::runtime_error("short PGM: " + out_prefix);
   g.px.assign(bytes.begin() + static_cast<std::ptrdiff_t>(offset),

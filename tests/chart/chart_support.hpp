@@ -30,25 +30,41 @@ int run(const std::string& command, std::string* output = nullptr);
 /// The whole file as bytes.
 std::string read_file(const std::string& path);
 
-/// An 8-bit greyscale raster (0 black, 255 white), row-major.
+/// An 8-bit greyscale raster (0 black, 255 white), row-major, possibly a crop of the page
+/// whose top-left pixel is page pixel (x0_px, y0_px).
 struct Gray {
   int width = 0;
   int height = 0;
   double dpi = 0;
+  int x0_px = 0;
+  int y0_px = 0;
   std::vector<std::uint8_t> px;
   std::uint8_t at(int x, int y) const {
     return px[static_cast<std::size_t>(y) * static_cast<std::size_t>(width) +
               static_cast<std::size_t>(x)];
   }
   bool dark(int x, int y) const { return at(x, y) < 128; }
-  /// Pixel index of the pixel containing page coordinate `mm`.
-  int px_of(double mm) const;
-  /// Page coordinate of the centre of pixel `i`, mm.
-  double mm_of(double i) const { return (i + 0.5) * 25.4 / dpi; }
+  /// Raster column of the pixel containing page x `mm`.
+  int px_x(double mm) const;
+  /// Raster row of the pixel containing page y `mm`.
+  int px_y(double mm) const;
+  /// Page x of the centre of raster column `i` (fractional allowed), mm.
+  double mm_x(double i) const { return (i + x0_px + 0.5) * 25.4 / dpi; }
+  /// Page y of the centre of raster row `i`, mm.
+  double mm_y(double i) const { return (i + y0_px + 0.5) * 25.4 / dpi; }
+  /// Page x of the left edge of raster column `i`, mm.
+  double edge_mm_x(int i) const { return (i + x0_px) * 25.4 / dpi; }
 };
 
-/// Renders one page of a PDF with `pdftoppm -gray` (poppler-utils) and reads the PGM.
-Gray render_page(const std::string& pdf, int page, int dpi, const std::string& out_prefix);
+/// A region of the page in mm (top-left corner and size).
+struct Crop {
+  double x_mm, y_mm, w_mm, h_mm;
+};
+
+/// Renders one page of a PDF with `pdftoppm -gray` (poppler-utils), optionally only `crop`,
+/// and reads the PGM it writes.
+Gray render_page(const std::string& pdf, int page, int dpi, const std::string& out_prefix,
+                 const Crop* crop = nullptr);
 
 /// A run of dark pixels [first, last] along a row or a column.
 struct Run {
