@@ -135,3 +135,46 @@ TEST_CASE("mesh_check: empty and corrupt meshes do not crash", "[kernel][mesh_ch
   CHECK(std::isfinite(in.volume_mm3));
   CHECK(in.bounds.max == Vec3{1, 1, 1});
 }
+
+namespace {
+/// Whether the triangle (0,0,0), (4,0,0), (0,4,0) and `other` intersect beyond shared corners.
+bool meets_base(std::array<Vec3, 3> other) {
+  Mesh m;
+  m.vertices = {{0, 0, 0}, {4, 0, 0}, {0, 4, 0}, other[0], other[1], other[2]};
+  m.triangles = {{0, 1, 2}, {3, 4, 5}};
+  return inspect_mesh(m).self_intersects;
+}
+}  // namespace
+
+TEST_CASE("mesh_check: triangles touching a flat triangle are decided exactly", "[kernel][mesh_check]") {
+  // One corner resting on the plane, inside and outside the triangle.
+  CHECK(meets_base({Vec3{1, 1, 0}, {1, 1, 2}, {2, 1, 2}}));
+  CHECK_FALSE(meets_base({Vec3{5, 5, 0}, {5, 5, 2}, {6, 5, 2}}));
+  // An edge lying in the plane, across and beside the triangle; on its boundary.
+  CHECK(meets_base({Vec3{-1, 1, 0}, {3, 1, 0}, {1, 1, 3}}));
+  CHECK_FALSE(meets_base({Vec3{-1, -1, 0}, {-2, 5, 0}, {-1, 2, 3}}));
+  CHECK(meets_base({Vec3{-1, 0, 0}, {5, 0, 0}, {2, 0, 3}}));
+  // Sharing the corner (0,0,0): an edge into the triangle's angle, away from it, along its side.
+  CHECK(meets_base({Vec3{0, 0, 0}, {1, 1, 0}, {1, 1, 2}}));
+  CHECK_FALSE(meets_base({Vec3{0, 0, 0}, {-1, -1, 0}, {-1, -1, 2}}));
+  CHECK(meets_base({Vec3{0, 0, 0}, {2, 0, 0}, {2, 0, 3}}));
+  CHECK_FALSE(meets_base({Vec3{0, 0, 0}, {-2, 0, 0}, {-2, 0, 3}}));
+  // Sharing the edge (0,0,0)–(4,0,0): a wall, a coplanar overlap, a coplanar neighbour.
+  CHECK_FALSE(meets_base({Vec3{0, 0, 0}, {4, 0, 0}, {2, 0, 3}}));
+  CHECK(meets_base({Vec3{0, 0, 0}, {4, 0, 0}, {2, 2, 0}}));
+  CHECK_FALSE(meets_base({Vec3{0, 0, 0}, {4, 0, 0}, {2, -2, 0}}));
+  // Crossing the plane inside and outside the triangle.
+  CHECK(meets_base({Vec3{1, 1, -1}, {1, 1, 1}, {2, 1, 1}}));
+  CHECK_FALSE(meets_base({Vec3{5, 1, -1}, {5, 1, 1}, {6, 1, 1}}));
+  // Coplanar and apart from shared corners: inside, overlapping an edge, far away.
+  CHECK(meets_base({Vec3{1, 1, 0}, {2, 1, 0}, {1, 2, 0}}));
+  CHECK(meets_base({Vec3{3, -1, 0}, {5, -1, 0}, {3, 3, 0}}));
+  CHECK_FALSE(meets_base({Vec3{10, 10, 0}, {11, 10, 0}, {10, 11, 0}}));
+  // The same questions in a slanted plane go through the general 3D test.
+  Mesh slanted;
+  slanted.vertices = {{0, 0, 0}, {4, 0, 1}, {0, 4, 2}, {1, 1, 0.75}, {1, 1, 3}, {2, 1, 3}};
+  slanted.triangles = {{0, 1, 2}, {3, 4, 5}};
+  CHECK(inspect_mesh(slanted).self_intersects);  // (1,1,0.75) lies on the slanted triangle
+  slanted.vertices[3] = {1, 1, 0.8};
+  CHECK_FALSE(inspect_mesh(slanted).self_intersects);
+}
