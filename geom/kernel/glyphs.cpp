@@ -27,6 +27,8 @@ namespace {
 constexpr const char* kFontFamily = TRIMWRIGHT_FONT_FAMILY;
 /// Font size in Cairo user units at which outlines are taken (large, so tolerances are fine).
 constexpr double kFontSize = 1000.0;
+/// Extra space between glyphs, as a fraction of the font size (em).
+constexpr double kTracking = 0.05;
 /// The characters whose ink height defines the digit height.
 constexpr const char* kDigits = "0123456789";
 
@@ -52,8 +54,19 @@ std::vector<Ring> raw_outline(const std::string& text, double tolerance_units) {
   cairo_set_font_options(cr.get(), options.get());
   cairo_set_tolerance(cr.get(), tolerance_units);
   cairo_new_path(cr.get());
-  cairo_move_to(cr.get(), 0, 0);
-  cairo_text_path(cr.get(), text.c_str());
+  // Glyphs are set one by one with a little extra spacing, so that neighbours never touch (some
+  // letter pairs meet exactly at their advance, e.g. "AV"; touching outlines cannot be engraved).
+  cairo_glyph_t* glyphs = nullptr;
+  int glyph_count = 0;
+  const cairo_status_t mapped = cairo_scaled_font_text_to_glyphs(
+      cairo_get_scaled_font(cr.get()), 0, 0, text.c_str(), static_cast<int>(text.size()), &glyphs,
+      &glyph_count, nullptr, nullptr, nullptr);
+  if (mapped != CAIRO_STATUS_SUCCESS)
+    throw FileError(std::string("font '") + kFontFamily + "' Bold: Cairo could not map \"" + text +
+                    "\" to glyphs: " + cairo_status_to_string(mapped));
+  for (int i = 0; i < glyph_count; ++i) glyphs[i].x += i * kTracking * kFontSize;
+  cairo_glyph_path(cr.get(), glyphs, glyph_count);
+  cairo_glyph_free(glyphs);
   std::unique_ptr<cairo_path_t, CairoDeleter> path(cairo_copy_path_flat(cr.get()));
   if (cairo_status(cr.get()) != CAIRO_STATUS_SUCCESS || path->status != CAIRO_STATUS_SUCCESS)
     throw FileError(std::string("font '") + kFontFamily + "' Bold: Cairo could not outline \"" +

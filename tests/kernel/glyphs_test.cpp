@@ -6,12 +6,15 @@
 #include <cairo.h>
 
 #include <algorithm>
+#include <string>
 #include <cmath>
 #include <vector>
 
 #include "geom/base/angle.hpp"
 #include "geom/base/error.hpp"
 #include "geom/kernel/glyphs.hpp"
+#include "geom/kernel/mesh_check.hpp"
+#include "geom/kernel/part.hpp"
 #include "geom/kernel/profile.hpp"
 
 using namespace trimwright;
@@ -161,4 +164,19 @@ TEST_CASE("glyphs: the digits' thinnest stroke holds against a raster measuremen
     min_kept_thick = std::min(min_kept_thick, eroded_share(d, 1.6 * stroke_px));
   }
   CHECK(min_kept_thick < 0.5 * min_kept_thin);
+}
+
+TEST_CASE("glyphs: neighbouring glyphs never touch, so any label can be engraved", "[kernel][glyphs]") {
+  // Some letter pairs meet exactly at their advance ("AV"); glyphs are set slightly apart.
+  std::vector<std::string> labels{"HEAVY", "AVAV", "LIGHT", "-12.5", "g\xC2\xB7mm", "90\xC2\xB0"};
+  for (int n = 0; n < 100; ++n) labels.push_back(std::to_string(n));
+  for (const std::string& label : labels) {
+    PartSpec s;
+    s.outline = Profile::rectangle({0, 0}, 60, 10);
+    s.thickness_mm = 2;
+    s.engraving_depth_mm = 0.4;
+    s.engraving = text_outline(label, {{0, 0}, 3, 0});
+    INFO("label " << label);
+    CHECK(inspect_mesh(build_part(s)).valid());
+  }
 }
