@@ -28,7 +28,6 @@ constexpr double kHeading = 3.3;
 constexpr std::size_t kTwoColumnRows = 12;  // longer tables go into two column groups
 
 const char* const kDash = "\xE2\x80\x94";      // —
-const char* const kDot = " \xC2\xB7 ";         // ·
 const char* const kGmm = " g\xC2\xB7mm";       // g·mm
 const char* const kEllipsis = "\xE2\x80\xA6";  // …
 
@@ -63,7 +62,7 @@ double nice_step(double max_value) {
 class Card {
  public:
   Card(Pen& pen, const ChartData& d, const ChartOptions& o, const CardFit& f)
-      : pen_(pen), d_(d), o_(o), f_(f), s_(f.scale), ps_(page_size(o.paper)) {
+      : pen_(pen), d_(d), f_(f), s_(f.scale), ps_(page_size(o.paper)) {
     x0_ = kChartMarginMm;
     x1_ = ps_.width_mm - kChartMarginMm;
     w_ = x1_ - x0_;
@@ -772,7 +771,6 @@ class Card {
 
   Pen& pen_;
   const ChartData& d_;
-  const ChartOptions& o_;
   CardFit f_;
   double s_;
   PageSize ps_;

@@ -93,7 +93,8 @@ TEST_CASE("chart: angles are shown wrapped to 0..360 in whole degrees unless a t
 }
 
 TEST_CASE("chart: paper sizes and names", "[chart]") {
-  // ISO 216: A4 is 210 × 297 mm. US letter is 8.5 × 11 in (ANSI/ASME Y14.1), 1 in = 25.4 mm.
+  // ISO 216: A4 is 210 × 297 mm (from memory). US letter is 8.5 × 11 in (ANSI/ASME Y14.1,
+  // from memory), with 1 in = 25.4 mm exactly (international yard and pound, 1959).
   CHECK(page_size(Paper::kA4).width_mm == 210.0);
   CHECK(page_size(Paper::kA4).height_mm == 297.0);
   CHECK(page_size(Paper::kLetter).width_mm == Approx(215.9));

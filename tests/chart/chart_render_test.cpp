@@ -112,8 +112,9 @@ std::string squash(const std::string& text) {
 TEST_CASE("chart: the PDF has two pages of A4 or letter size (pdfinfo)", "[chart]") {
   const std::string dir = out_dir("pages");
   const ChartData d = slide_disc_example();
-  // Expected sizes: ISO 216 A4 210 × 297 mm = 595.276 × 841.890 pt; US letter 8.5 × 11 in =
-  // 612 × 792 pt (1 pt = 1/72 in); pdfinfo (poppler-utils) reads the page boxes.
+  // Expected sizes (from memory): ISO 216 A4 210 × 297 mm = 595.276 × 841.890 pt; US letter
+  // 8.5 × 11 in = 612 × 792 pt (PDF 1.7, ISO 32000-1, user space unit 1/72 in); pdfinfo
+  // (poppler-utils) reads the page boxes and names the paper.
   struct Case {
     Paper paper;
     double w_pt, h_pt;
@@ -123,6 +124,9 @@ TEST_CASE("chart: the PDF has two pages of A4 or letter size (pdfinfo)", "[chart
     int pages = 0;
     const auto sizes = pdfinfo_page_sizes(w.pdf, &pages);
     CHECK(pages == 2);
+    std::string info;
+    REQUIRE(run("pdfinfo -f 1 -l 2 '" + w.pdf + "'", &info) == 0);
+    CHECK_THAT(info, Catch::Contains(c.paper == Paper::kA4 ? "pts (A4)" : "pts (letter)"));
     REQUIRE(sizes.size() == 2);
     for (const auto& s : sizes) {
       CHECK(s.first == Approx(c.w_pt).margin(0.001));
@@ -301,8 +305,9 @@ TEST_CASE("chart: the PNG has the pixel size asked for (PNG header)", "[chart]")
     ChartTargets t;
     t.png_path = dir + fmt::format("{}-{}.png", paper_name(c.paper), c.dpi);
     write_chart(d, options(c.paper, c.dpi), t);
-    // PNG (ISO/IEC 15948): 8-byte signature, then the IHDR chunk: length, "IHDR", width and
-    // height as big-endian 32-bit integers at bytes 16 and 20.
+    // PNG (ISO/IEC 15948, from memory): 8-byte signature, then the IHDR chunk: length, "IHDR",
+    // width and height as big-endian 32-bit integers at bytes 16 and 20. Cairo's own PNG reader
+    // (libpng) agrees in the overflow test, which reads the pixels back.
     const std::string b = read_file(t.png_path);
     REQUIRE(b.size() > 24);
     CHECK(b.compare(0, 8, "\x89PNG\r\n\x1a\n") == 0);
