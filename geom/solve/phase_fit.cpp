@@ -125,10 +125,6 @@ void check_shape(const Readings& readings, const PhaseData& d) {
     fail_readings(readings, format("%zu run(s) for %d plane(s); expected at least %zu (one more "
                                    "than the planes)",
                                    runs, d.planes, needed));
-  if (d.sensors < d.planes)
-    fail_readings(readings, format("%d sensor(s) for %d planes; expected at least as many sensors "
-                                   "as planes",
-                                   d.sensors, d.planes));
 }
 
 /// Trial and two-plane: each trial run must change the readings; warn when the change is below
@@ -217,6 +213,11 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
   const auto runs = static_cast<Eigen::Index>(readings.runs.size());
   const Eigen::Index sensors = d.sensors;
 
+  if (!influence) check_shape(readings, d);
+  if (d.sensors < d.planes)
+    fail_readings(readings, format("%d sensor(s) for %d planes; expected at least as many sensors "
+                                   "as planes",
+                                   d.sensors, d.planes));
   Eigen::VectorXcd v0(sensors);
   Eigen::MatrixXcd a(sensors, planes);
   if (influence) {
@@ -226,7 +227,6 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
     v0 = v0_runs.colwise().mean().transpose();
     result.redundancy = static_cast<int>((runs - 1) * sensors);
   } else {
-    check_shape(readings, d);
     if (readings.method != Method::kFit) check_trials(readings, options, d, result.warnings);
     Eigen::MatrixXcd x(runs, planes + 1);
     x.col(0).setOnes();
@@ -292,6 +292,17 @@ std::vector<Cplx> solve_phase(const Readings& readings, const SolveOptions& opti
       }
   }
   result.influence = set;
+
+  // A plane whose weights moved but changed no reading (all its coefficients vanish).
+  const double scale = d.v.cwiseAbs().maxCoeff();
+  for (int p = 0; p < planes; ++p) {
+    const double spread = (d.w.col(p).array() - d.w(0, p)).abs().maxCoeff();
+    if (!influence && !(a.col(p).cwiseAbs().maxCoeff() * spread > 1e-9 * scale))
+      fail_readings(readings, format("the weights in plane %d changed nothing (every reading is "
+                                     "the same with and without them); expected runs whose "
+                                     "readings respond to the weights",
+                                     p + 1));
+  }
 
   // The correction: least squares over the sensors (Goodman's method when sensors > planes).
   Eigen::JacobiSVD<Eigen::MatrixXcd> svd(a, Eigen::ComputeThinU | Eigen::ComputeThinV);

@@ -172,6 +172,13 @@ TEST_CASE("fit: too few runs, too few sensors and unseparated planes are errors"
             m.run("c", {weight(1, 2, 40, 90), weight(3, 4, 40, 90)})};
   CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("do not separate the planes"));
 
+  // Plane 3's weights move but no sensor responds to them.
+  ModelRotor deaf = m;
+  for (auto& row : deaf.alpha) row[2] = 0;
+  r.runs = three_plane_runs(deaf);
+  r.planes = 0;
+  CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("the weights in plane 3 changed nothing"));
+
   Readings mixed = m.readings(Method::kFit);
   mixed.runs = three_plane_runs(m);
   mixed.runs[3].amplitude.pop_back();
