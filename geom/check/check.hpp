@@ -29,11 +29,11 @@ struct CheckResult {
 
 /// The material of the printed parts.
 struct Material {
-  std::string name;
-  double density_g_cm3 = 0;
-  double tensile_mpa = 0;   ///< in-plane tensile strength of printed parts
-  double poisson = 0.35;
-  double max_temp_c = 0;    ///< service temperature limit
+  std::string name;         ///< e.g. "PETG", shown in notes
+  double density_g_cm3 = 0; ///< used when a part carries no density of its own
+  double tensile_mpa = 0;   ///< in-plane tensile strength of printed parts; 0: unknown (fails)
+  double poisson = 0.35;    ///< Poisson's ratio, [0, 0.5)
+  double max_temp_c = 0;    ///< service temperature limit; 0: unknown (fails)
 };
 
 /// Everything the checks look at besides the design itself.
@@ -42,23 +42,24 @@ struct Context {
   std::optional<double> rotor_max_speed_rpm;  ///< as marked on the rotor
   std::string rotor_kind;                     ///< grinding-wheel | buffing-wheel | …
   double rotor_diameter_mm = 0;               ///< 0: unknown
-  double rotor_mass_kg = 0;
+  double rotor_mass_kg = 0;                   ///< for the report; no check uses it yet
   double overspeed_factor = 1.5;              ///< proof speed / running speed, ≥ 1
-  Material material;
+  Material material;                          ///< the printed parts' material
   std::string mount = "outboard";             ///< outboard | under-nut
-  std::optional<double> free_thread_mm;
-  double nut_height_mm = 0;
+  std::optional<double> free_thread_mm;       ///< thread past the wheel's tightened nut, mm
+  double nut_height_mm = 0;                   ///< the fixture's nut, mm (in the design's stack)
   double spindle_diameter_mm = 0;             ///< the thread the clamping nut runs on
   double max_diameter_mm = 0;                 ///< room for the fixture (guard, work); 0: unknown
-  std::optional<double> flange_diameter_mm;
-  double nozzle_mm = 0.4;
-  double layer_mm = 0.2;
-  double infill_percent = 100;
+  std::optional<double> flange_diameter_mm;   ///< outer flange, mm
+  double nozzle_mm = 0.4;                     ///< printer nozzle (line width), mm
+  double layer_mm = 0.2;                      ///< layer height, mm
+  double infill_percent = 100;                ///< 0–100; below 100 fails print-infill
   std::vector<std::string> accept;            ///< [checks] accept
   /// Flange temperature in service, °C, when the user knows it; otherwise the checks assume
   /// kWarmMachineTemp_c for grinders and buffers, kOtherMachineTemp_c for other rotors.
   std::optional<double> service_temp_c;
-  /// Torque the clamping nut is tightened to, N·m; default kModestTorque_nm.
+  /// Torque the clamping nut is tightened to, N·m; default: the least that holds, in 0.5 N·m
+  /// steps from kMinAdvisedTorque_nm, never above kModestTorque_nm.
   std::optional<double> nut_torque_nm;
   /// Thread that clamps a clamp-weights part onto its rim, mm (the weight's own screw); without
   /// it the clamp check of that family fails and asks for it.
