@@ -105,7 +105,9 @@ TEST_CASE("check: values the checks report are the formulas' values", "[check]")
   CHECK(s->unit == "MPa");
   const CheckResult* v = find(rs, "surface-speed");
   REQUIRE(v != nullptr);
-  CHECK(v->value == Approx(27.1).margin(0.05));  // 150 mm at 3450 rpm (references.md)
+  // 150 mm at 3450 rpm → 27.1 m/s (v = π·D·n/60 000; check value in shared references.md,
+  // "Abrasive-wheel practice").
+  CHECK(v->value == Approx(27.1).margin(0.05));
   // The clamp holds the fixture at its largest setting: 150 g·mm at the proof speed.
   const CheckResult* k = find(rs, "clamp");
   REQUIRE(k != nullptr);
