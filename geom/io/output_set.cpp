@@ -12,7 +12,6 @@
 #include <cstdio>
 #include <cstring>
 #include <filesystem>
-#include <set>
 #include <utility>
 
 #include "geom/base/error.hpp"
@@ -46,8 +45,9 @@ std::string hidden_name(const std::string& folder, const std::string& name, cons
   }
 }
 
-// Write all of `bytes` to a new file at `path` (which must not exist) and flush it to disk.
-void write_new_file(const std::string& path, std::string_view bytes, const std::string& shown) {
+// Write all of `bytes` to a new file at `path` (which must not exist), flushed to disk if asked.
+void write_new_file(const std::string& path, std::string_view bytes, const std::string& shown,
+                    bool flush) {
   const int fd = ::open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
   if (fd < 0) throw_os(shown, "write", errno);
   std::size_t done = 0;
@@ -61,7 +61,7 @@ void write_new_file(const std::string& path, std::string_view bytes, const std::
     }
     done += static_cast<std::size_t>(n);
   }
-  if (::fsync(fd) != 0) {
+  if (flush && ::fsync(fd) != 0) {
     const int err = errno;
     ::close(fd);
     throw_os(shown, "write", err);
@@ -69,8 +69,8 @@ void write_new_file(const std::string& path, std::string_view bytes, const std::
   if (::close(fd) != 0) throw_os(shown, "write", errno);
 }
 
-// Flush a file that someone else wrote to disk; it must exist and be a regular file.
-void sync_existing_file(const std::string& path, const std::string& shown) {
+// Check that a writer produced a regular file at `path`, and flush it to disk if asked.
+void check_written_file(const std::string& path, const std::string& shown, bool flush) {
   const int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
   if (fd < 0) throw_os(shown, "write", errno);
   struct stat st;
@@ -78,7 +78,7 @@ void sync_existing_file(const std::string& path, const std::string& shown) {
     ::close(fd);
     throw InternalError(fmt::format("{}: the writer did not produce a regular file", shown));
   }
-  const int rc = ::fsync(fd);
+  const int rc = flush ? ::fsync(fd) : 0;
   const int err = errno;
   ::close(fd);
   if (rc != 0) throw_os(shown, "write", err);
@@ -149,7 +149,7 @@ void roll_back(std::vector<Step>& steps) {
 
 }  // namespace
 
-void write_file_atomic(const std::string& path, std::string_view bytes) {
+void write_file_atomic(const std::string& path, std::string_view bytes, bool flush_to_disk) {
   const fs::path p(path);
   const std::string folder = p.parent_path().string();
   const std::string name = p.filename().string();
@@ -159,17 +159,18 @@ void write_file_atomic(const std::string& path, std::string_view bytes) {
   const std::vector<std::string> created = make_folder(folder.empty() ? "." : folder);
   const std::string temp = hidden_name(folder, name, "tmp");
   try {
-    write_new_file(temp, bytes, path);
+    write_new_file(temp, bytes, path, flush_to_disk);
     if (::rename(temp.c_str(), path.c_str()) != 0) throw_os(path, "write", errno);
   } catch (...) {
     ::unlink(temp.c_str());
     remove_created_folders(created);
     throw;
   }
-  sync_folder(folder);
+  if (flush_to_disk) sync_folder(folder);
 }
 
-OutputSet::OutputSet(std::string folder) : folder_(std::move(folder)) {
+OutputSet::OutputSet(std::string folder, bool flush_to_disk)
+    : folder_(std::move(folder)), flush_to_disk_(flush_to_disk) {
   if (folder_.empty()) folder_ = ".";
 }
 
@@ -231,9 +232,9 @@ std::vector<std::string> OutputSet::commit() {
       s.temp = hidden_name(folder_, entries_[i].name, "tmp");
       if (entries_[i].writer) {
         entries_[i].writer(s.temp);
-        sync_existing_file(s.temp, s.target);
+        check_written_file(s.temp, s.target, flush_to_disk_);
       } else {
-        write_new_file(s.temp, entries_[i].bytes, s.target);
+        write_new_file(s.temp, entries_[i].bytes, s.target, flush_to_disk_);
       }
     }
     // Install: old file aside, new file in place.
@@ -251,7 +252,7 @@ std::vector<std::string> OutputSet::commit() {
     remove_created_folders(created);
     throw;
   }
-  sync_folder(folder_);
+  if (flush_to_disk_) sync_folder(folder_);
   std::vector<std::string> paths;
   paths.reserve(steps.size());
   for (const Step& s : steps) {

@@ -11,11 +11,13 @@
 
 namespace trimwright::io {
 
-/// Write `bytes` to `path` atomically: a temporary file in the same folder, flushed to disk, then
-/// renamed over `path`. On failure the temporary is removed, any old file at `path` is untouched,
-/// and FileError names the path and the OS reason. The folder is created if missing (and removed
-/// again on failure). Unlike OutputSet, any file name is accepted.
-void write_file_atomic(const std::string& path, std::string_view bytes);
+/// Write `bytes` to `path` atomically: a temporary file in the same folder, then renamed over
+/// `path`, so readers see the old file or the whole new one. On failure the temporary is removed,
+/// any old file at `path` is untouched, and FileError names the path and the OS reason. The
+/// folder is created if missing (and removed again on failure). Unlike OutputSet, any file name
+/// is accepted. `flush_to_disk` also fsyncs the file before the rename and the folder after it,
+/// so that the new content survives a power cut (several ms per file).
+void write_file_atomic(const std::string& path, std::string_view bytes, bool flush_to_disk = false);
 
 /// A set of files to write into one folder, all or none.
 ///
@@ -23,7 +25,8 @@ void write_file_atomic(const std::string& path, std::string_view bytes);
 /// function that writes a given path. commit() then:
 ///  1. creates the folder (and missing parents) if it does not exist;
 ///  2. refuses, before touching anything, a target name that exists and is not a regular file;
-///  3. writes every file to a hidden temporary name in the folder and flushes it to disk;
+///  3. writes every file to a hidden temporary name in the folder (and, when asked, flushes it to
+///     disk);
 ///  4. moves each existing target aside to a hidden backup name and renames the temporary onto it;
 ///  5. only when every file is in place, deletes the backups.
 /// On any failure it removes its temporaries, puts the backups back, removes the folders it
@@ -35,7 +38,10 @@ class OutputSet {
   using Writer = std::function<void(const std::string& path)>;
 
   /// An empty set for `folder` (relative or absolute; created by commit() if missing).
-  explicit OutputSet(std::string folder);
+  /// `flush_to_disk`: fsync every file before the renames and the folder after them, so that a
+  /// power cut right after commit() cannot leave empty files (costs several ms per file; the
+  /// all-or-nothing behaviour on errors does not depend on it).
+  explicit OutputSet(std::string folder, bool flush_to_disk = false);
 
   /// Add a file with its content. Throws InternalError for a name that is not plain or is
   /// already in the set (names come from the program, not the user: sanitise titles first).
@@ -62,6 +68,7 @@ class OutputSet {
   };
   std::string folder_;
   std::vector<Entry> entries_;
+  bool flush_to_disk_ = false;
   bool committed_ = false;
 };
 

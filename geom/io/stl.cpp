@@ -11,7 +11,7 @@
 #include <cstdint>
 #include <cstring>
 #include <limits>
-#include <unordered_map>
+#include <vector>
 
 #include "geom/base/error.hpp"
 #include "geom/io/files.hpp"
@@ -132,7 +132,7 @@ std::string ascii_stl(const kernel::Mesh& mesh, std::string_view part_name) {
   const std::string name = printable(part_name);
   fmt::memory_buffer b;
   b.reserve(64 + 260 * mesh.triangles.size());
-  auto out = std::back_inserter(b);
+  auto out = fmt::appender(b);
   fmt::format_to(out, "solid {}\n", name);
   for (std::size_t t = 0; t < mesh.triangles.size(); ++t) {
     const Facet f = facet_of(mesh, t);
@@ -151,13 +151,19 @@ std::string ascii_stl(const kernel::Mesh& mesh, std::string_view part_name) {
 // Reading
 
 // Merges vertices that are bit-for-bit identical (after -0 → +0), numbering them by first use.
+// An open-addressing hash table of vertex indices (linear probing, at most half full): several
+// times faster than std::unordered_map on large files.
 class VertexMerger {
  public:
-  explicit VertexMerger(kernel::Mesh& mesh) : mesh_(mesh) {}
+  explicit VertexMerger(kernel::Mesh& mesh) : mesh_(mesh) { rehash(1024); }
   void reserve(std::size_t triangles) {
-    index_.reserve(triangles / 2 + 16);
+    // A closed mesh has about half as many vertices as triangles.
     mesh_.vertices.reserve(triangles / 2 + 16);
+    keys_.reserve(triangles / 2 + 16);
     mesh_.triangles.reserve(triangles);
+    std::size_t want = 1024;
+    while (want < triangles + 16) want *= 2;  // ≥ 2 × expected vertices
+    if (want > slots_.size()) rehash(want);
   }
   std::uint32_t add(const float v[3]) {
     Key key;
@@ -165,11 +171,18 @@ class VertexMerger {
       const float f = v[c] + 0.0f;
       std::memcpy(&key.bits[c], &f, 4);
     }
-    auto [it, inserted] =
-        index_.try_emplace(key, static_cast<std::uint32_t>(mesh_.vertices.size()));
-    if (inserted)
-      mesh_.vertices.push_back({double(v[0]) + 0.0, double(v[1]) + 0.0, double(v[2]) + 0.0});
-    return it->second;
+    std::size_t h = hash(key) & mask_;
+    while (slots_[h] != 0) {
+      const std::uint32_t index = slots_[h] - 1;
+      if (keys_[index] == key) return index;
+      h = (h + 1) & mask_;
+    }
+    const auto index = static_cast<std::uint32_t>(keys_.size());
+    slots_[h] = index + 1;
+    keys_.push_back(key);
+    mesh_.vertices.push_back({double(v[0]) + 0.0, double(v[1]) + 0.0, double(v[2]) + 0.0});
+    if (2 * keys_.size() > slots_.size()) rehash(2 * slots_.size());
+    return index;
   }
 
  private:
@@ -179,19 +192,28 @@ class VertexMerger {
       return bits[0] == o.bits[0] && bits[1] == o.bits[1] && bits[2] == o.bits[2];
     }
   };
-  struct KeyHash {
-    std::size_t operator()(const Key& k) const {
-      std::uint64_t h = 0x9e3779b97f4a7c15ull;
-      for (std::uint32_t b : k.bits) {
-        h ^= b;
-        h *= 0xff51afd7ed558ccdull;
-        h ^= h >> 32;
-      }
-      return static_cast<std::size_t>(h);
+  static std::size_t hash(const Key& k) {
+    std::uint64_t h = 0x9e3779b97f4a7c15ull;
+    for (std::uint32_t b : k.bits) {
+      h ^= b;
+      h *= 0xff51afd7ed558ccdull;
+      h ^= h >> 32;
     }
-  };
+    return static_cast<std::size_t>(h);
+  }
+  void rehash(std::size_t size) {
+    slots_.assign(size, 0);
+    mask_ = size - 1;
+    for (std::size_t i = 0; i < keys_.size(); ++i) {
+      std::size_t h = hash(keys_[i]) & mask_;
+      while (slots_[h] != 0) h = (h + 1) & mask_;
+      slots_[h] = static_cast<std::uint32_t>(i + 1);
+    }
+  }
   kernel::Mesh& mesh_;
-  std::unordered_map<Key, std::uint32_t, KeyHash> index_;
+  std::vector<Key> keys_;             // key of each vertex, by index
+  std::vector<std::uint32_t> slots_;  // vertex index + 1; 0 is empty
+  std::size_t mask_ = 0;
 };
 
 const char* axis_name(int c) { return c == 0 ? "x" : c == 1 ? "y" : "z"; }

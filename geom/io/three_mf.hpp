@@ -29,8 +29,9 @@ inline constexpr const char* kThreeMfMetadataNamespace = "urn:trimwright:3mf:met
 struct ThreeMfMetadata {
   std::string title;  ///< 3MF "Title"; omitted when empty
   /// Extra key/value pairs in this order, written as `trimwright:KEY` (3MF requires custom
-  /// metadata names to carry a namespace). Keys: ASCII letters, digits and '_', starting with a
-  /// letter (e.g. "material", "infill_percent", "pause_layer", "setting").
+  /// metadata names to carry a namespace). Keys: ASCII letters, digits, '_', '-' and '.',
+  /// starting with a letter or '_' (e.g. "material", "infill_percent", "pause_layer",
+  /// "setting").
   std::vector<std::pair<std::string, std::string>> entries;
 };
 

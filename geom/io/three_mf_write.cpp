@@ -4,7 +4,6 @@
 
 #include <algorithm>
 #include <array>
-#include <cctype>
 #include <cmath>
 #include <limits>
 #include <numeric>
@@ -65,10 +64,12 @@ Bounds bounds_of(const kernel::Mesh& mesh) {
   return b;
 }
 
+// An XML local name in plain ASCII: a letter or '_', then letters, digits, '_', '-' or '.'.
 bool valid_metadata_key(const std::string& key) {
-  if (key.empty() || !std::isalpha(static_cast<unsigned char>(key[0]))) return false;
-  return std::all_of(key.begin(), key.end(), [](char c) {
-    return std::isalnum(static_cast<unsigned char>(c)) || c == '_';
+  auto ascii_alpha = [](char c) { return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z'); };
+  if (key.empty() || !(ascii_alpha(key[0]) || key[0] == '_')) return false;
+  return std::all_of(key.begin(), key.end(), [&](char c) {
+    return ascii_alpha(c) || (c >= '0' && c <= '9') || c == '_' || c == '-' || c == '.';
   });
 }
 
@@ -113,7 +114,7 @@ std::string model_xml(const std::vector<ThreeMfObject>& objects, const ThreeMfMe
   }
   fmt::memory_buffer b;
   b.reserve(estimate);
-  auto out = std::back_inserter(b);
+  auto out = fmt::appender(b);
   fmt::format_to(out,
                  "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
                  "<model unit=\"millimeter\" xml:lang=\"en-US\" xmlns=\"{}\" xmlns:{}=\"{}\">\n",

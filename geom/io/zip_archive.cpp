@@ -18,8 +18,9 @@ namespace {
 // Fixed so that the archive does not depend on the clock or the time zone.
 constexpr zip_uint16_t kDosDate = (0u << 9) | (1u << 5) | 1u;
 constexpr zip_uint16_t kDosTime = 0;
-// zlib level 6: its default, a good size/speed balance for XML.
-constexpr zip_uint32_t kDeflateLevel = 6;
+// zlib level 1: for 3MF model XML about 4 times faster than the default level 6 (17 against
+// 63 ms for 1.1 MB) for a file about a third larger; a design's files stay small either way.
+constexpr zip_uint32_t kDeflateLevel = 1;
 
 struct ZipErrorGuard {
   zip_error_t error;

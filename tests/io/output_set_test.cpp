@@ -39,6 +39,28 @@ TEST_CASE("output set: writes every file and creates the folder", "[io][output]"
   CHECK_THROWS_AS(set.commit(), InternalError);
 }
 
+TEST_CASE("output set: flushing to disk gives the same result", "[io][output]") {
+  test::TempDir dir;
+  OutputSet set(dir.path(), true);
+  set.add("part.stl", "stl bytes");
+  set.add_writer("chart.svg", [](const std::string& path) { test::write_bytes(path, "<svg/>"); });
+  set.commit();
+  write_file_atomic(dir.file("single.txt"), "one", true);
+  CHECK(test::folder_snapshot(dir.path()) ==
+        std::map<std::string, std::string>{
+            {"part.stl", "stl bytes"}, {"chart.svg", "<svg/>"}, {"single.txt", "one"}});
+}
+
+TEST_CASE("output set: a writer that writes nothing is a bug, reported and rolled back",
+          "[io][output]") {
+  test::TempDir dir;
+  OutputSet set(dir.path());
+  set.add("a.stl", "a");
+  set.add_writer("chart.png", [](const std::string&) {});
+  CHECK_THROWS_AS(set.commit(), FileError);  // the writer's temporary does not exist
+  CHECK(test::folder_snapshot(dir.path()).empty());
+}
+
 TEST_CASE("output set: replaces its own files, leaves other files alone", "[io][output]") {
   test::TempDir dir;
   test::write_bytes(dir.file("part.stl"), "old part");

@@ -178,8 +178,13 @@ TEST_CASE("3mf: writer refuses bad input as internal errors", "[io][3mf]") {
   bad.triangles[0][2] = 4;
   CHECK_THROWS_AS(io::three_mf_bytes({{"bad", bad}}, {}), InternalError);
   io::ThreeMfMetadata meta;
-  meta.entries = {{"bad key", "x"}};
-  CHECK_THROWS_AS(io::three_mf_bytes(sample_parts(), meta), InternalError);
+  for (const char* key : {"bad key", "1st", "", "a:b", "\xC3\xA4"}) {
+    meta.entries = {{key, "x"}};
+    CHECK_THROWS_AS(io::three_mf_bytes(sample_parts(), meta), InternalError);
+  }
+  meta.entries = {{"_pause-disc.2", "x"}};
+  CHECK(io::parse_3mf(io::three_mf_bytes(sample_parts(), meta), "x")
+            .find_metadata("trimwright:_pause-disc.2"));
   meta.entries = {{"material", "x"}, {"material", "y"}};
   CHECK_THROWS_AS(io::three_mf_bytes(sample_parts(), meta), InternalError);
 }
