@@ -73,14 +73,16 @@ using ThreeMfTransform = std::array<double, 12>;
 
 /// One mesh object read from a 3MF file.
 struct ThreeMfReadObject {
-  int id = 0;         ///< the object's resource id
-  std::string name;   ///< its `name` attribute (may be empty)
-  kernel::Mesh mesh;  ///< vertices converted to mm; components resolved into one mesh
+  int id = 0;        ///< the object's resource id
+  std::string name;  ///< its `name` attribute (may be empty)
+  /// Vertices at float precision (as slicers and STL hold them), converted to mm; components
+  /// resolved into one mesh.
+  kernel::Mesh mesh;
 };
 
 /// One build item read from a 3MF file.
 struct ThreeMfBuildItem {
-  int object_id = 0;
+  int object_id = 0;                                               ///< the object it places
   ThreeMfTransform transform{1, 0, 0, 0, 1, 0, 0, 0, 1, 0, 0, 0};  ///< translation in mm
 };
 
@@ -102,7 +104,8 @@ struct ThreeMfModel {
 /// unknown elements and extensions are skipped. Throws InputError with the source (and the model
 /// line) for: not a zip, a damaged zip entry, no model part, malformed XML tags, a bad number, a
 /// triangle index out of range, an unknown unit, an object with neither mesh nor components,
-/// a component cycle, or a model with no mesh object.
+/// a component cycle, a reference into another model part (production extension), or a model
+/// with no object.
 ThreeMfModel parse_3mf(std::string_view bytes, const std::string& source);
 
 /// Read and parse a 3MF file: FileError when it cannot be read, InputError for bad content.

@@ -364,6 +364,7 @@ class ModelParser {
         object->has_components = true;
         in_components = !tag.self_closing;
       } else if (name == "component" && object && in_components) {
+        refuse_other_part(tag, fmt::format("a component of object {}", object->id));
         Component c;
         c.object_id = int_attribute(tag, "objectid", 1);
         if (const std::string* t = tag.attribute("transform")) c.transform = transform(tag, *t);
@@ -371,6 +372,7 @@ class ModelParser {
       } else if (name == "build") {
         in_build = !tag.self_closing;
       } else if (name == "item" && in_build) {
+        refuse_other_part(tag, "a build item");
         ThreeMfBuildItem item;
         item.object_id = int_attribute(tag, "objectid", 1);
         if (const std::string* t = tag.attribute("transform")) item.transform = transform(tag, *t);
@@ -412,6 +414,19 @@ class ModelParser {
                                          s->substr(0, 40)));
     }
     return d;
+  }
+
+  // The production extension lets a component or item point into another model part (a
+  // `p:path` attribute); this reader reads one model part only, and says so.
+  void refuse_other_part(const Tag& tag, const std::string& what) {
+    for (const Attribute& a : tag.attributes) {
+      const std::size_t colon = a.name.find(':');
+      if (colon != std::string_view::npos && a.name.substr(colon + 1) == "path") {
+        scan_.fail(tag.offset, fmt::format("{} refers to another model part '{}' (3MF production "
+                                           "extension); only single-part models are read",
+                                           what, a.value.substr(0, 80)));
+      }
+    }
   }
 
   int int_attribute(const Tag& tag, std::string_view key, int min) {

@@ -337,6 +337,12 @@ TEST_CASE("3mf reader: broken files give clear one-line input errors", "[io][3mf
                     "</components></object><object id=\"2\"><components>"
                     "<component objectid=\"1\"/></components></object></resources></model>"))
             .find("a cycle?") != std::string::npos);
+  CHECK(input_error(package("<model xmlns:p=\"http://schemas.microsoft.com/3dmanufacturing/"
+                            "production/2015/06\"><resources><object id=\"1\"><components>"
+                            "<component p:path=\"/3D/Objects/a.model\" objectid=\"1\"/>"
+                            "</components></object></resources></model>"))
+            .find("a component of object 1 refers to another model part '/3D/Objects/a.model' "
+                  "(3MF production extension)") != std::string::npos);
 }
 
 TEST_CASE("mesh file: STL and 3MF are told apart by content", "[io][3mf][stl]") {
