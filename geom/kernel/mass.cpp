@@ -1,7 +1,7 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Mass properties of a closed triangle mesh by the divergence theorem. Each triangle and the
-// reference point span a tetrahedron; the polynomial integrals of 1, x, y, z, x², y², z², xy, yz, zx
-// over the solid are sums of exact per-triangle terms (D. Eberly, "Polyhedral Mass Properties
+// reference point span a tetrahedron; the polynomial integrals of 1, x, y, z, x², y², z², xy, yz,
+// zx over the solid are sums of exact per-triangle terms (D. Eberly, "Polyhedral Mass Properties
 // (Revisited)", geometrictools.com, after B. Mirtich, J. Graphics Tools 1(2), 1996). The formulas
 // are written out in docs/mass-properties.md.
 
@@ -78,8 +78,8 @@ MassProperties mass_properties(const Mesh& mesh) {
 
   const double v = in[0];
   out.volume_mm3 = v;
-  const double size = std::max({box.max[0] - box.min[0], box.max[1] - box.min[1],
-                                box.max[2] - box.min[2]});
+  const double size =
+      std::max({box.max[0] - box.min[0], box.max[1] - box.min[1], box.max[2] - box.min[2]});
   // A (near) flat or open-and-cancelling surface has no meaningful centroid or inertia.
   if (!(std::fabs(v) > 1e-12 * size * size * size)) return out;
   const double cx = in[1] / v, cy = in[2] / v, cz = in[3] / v;  // relative to ref

@@ -87,7 +87,8 @@ Mesh merged(const Mesh& a, const Mesh& b) {
   const auto offset = static_cast<std::uint32_t>(a.vertices.size());
   out.vertices.insert(out.vertices.end(), b.vertices.begin(), b.vertices.end());
   out.triangles.reserve(a.triangles.size() + b.triangles.size());
-  for (const auto& t : b.triangles) out.triangles.push_back({t[0] + offset, t[1] + offset, t[2] + offset});
+  for (const auto& t : b.triangles)
+    out.triangles.push_back({t[0] + offset, t[1] + offset, t[2] + offset});
   return out;
 }
 

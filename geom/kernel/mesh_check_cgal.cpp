@@ -1,8 +1,8 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Validity of any triangle soup (from our own parts or from broken STL files): an edge map for
 // closedness, manifoldness and orientation; exact predicates for degenerate triangles and for
-// self-intersections (box intersection plus exact triangle tests, which need no half-edge structure,
-// so non-manifold input is fine).
+// self-intersections (box intersection plus exact triangle tests, which need no half-edge
+// structure, so non-manifold input is fine).
 
 #include <CGAL/Exact_predicates_inexact_constructions_kernel.h>
 #include <CGAL/box_intersection_d.h>
@@ -23,8 +23,9 @@ namespace {
 using K = CGAL::Exact_predicates_inexact_constructions_kernel;
 using P3 = K::Point_3;
 using P2 = K::Point_2;
-using Box = CGAL::Box_intersection_d::Box_with_info_d<double, 3, std::uint32_t,
-                                                      CGAL::Box_intersection_d::ID_FROM_BOX_ADDRESS>;
+using Box =
+    CGAL::Box_intersection_d::Box_with_info_d<double, 3, std::uint32_t,
+                                              CGAL::Box_intersection_d::ID_FROM_BOX_ADDRESS>;
 using Tri = std::array<std::uint32_t, 3>;
 
 bool finite(const Vec3& p) {
@@ -38,9 +39,8 @@ std::vector<std::uint32_t> welded_ids(const std::vector<Vec3>& v) {
   order.reserve(v.size());
   for (std::uint32_t i = 0; i < v.size(); ++i)
     if (finite(v[i])) order.push_back(i);
-  std::sort(order.begin(), order.end(), [&v](std::uint32_t a, std::uint32_t b) {
-    return v[a] != v[b] ? v[a] < v[b] : a < b;
-  });
+  std::sort(order.begin(), order.end(),
+            [&v](std::uint32_t a, std::uint32_t b) { return v[a] != v[b] ? v[a] < v[b] : a < b; });
   std::vector<std::uint32_t> id(v.size());
   std::iota(id.begin(), id.end(), 0u);
   for (std::size_t k = 1; k < order.size(); ++k)
@@ -95,7 +95,8 @@ bool segments_meet(const P2& p, const P2& q, const P2& r, const P2& s) {
 
 bool point_in_triangle(const P2& p, const P2 t[3]) {
   const CGAL::Orientation o = CGAL::orientation(t[0], t[1], t[2]), opposite = -o;
-  return CGAL::orientation(t[0], t[1], p) != opposite && CGAL::orientation(t[1], t[2], p) != opposite &&
+  return CGAL::orientation(t[0], t[1], p) != opposite &&
+         CGAL::orientation(t[1], t[2], p) != opposite &&
          CGAL::orientation(t[2], t[0], p) != opposite;
 }
 
@@ -136,7 +137,8 @@ int flat_axis(const Tri& t, const std::vector<P3>& p) {
 
 /// General test in 3D. Shared edge: they overlap only if coplanar and on the same side of it.
 /// Shared vertex: they meet elsewhere only if an opposite edge meets the other triangle.
-bool triangles_intersect_3d(const Tri& h, const Tri& g, const Sharing& s, const std::vector<P3>& p) {
+bool triangles_intersect_3d(const Tri& h, const Tri& g, const Sharing& s,
+                            const std::vector<P3>& p) {
   auto hp = [&](int i) -> const P3& { return p[h[static_cast<std::size_t>(i % 3)]]; };
   auto gp = [&](int j) -> const P3& { return p[g[static_cast<std::size_t>(j % 3)]]; };
   if (s.count == 2) {
@@ -188,9 +190,12 @@ bool triangles_intersect(Tri h, Tri g, const std::vector<P3>& p) {
   int n_on = 0;
   for (int j = 0; j < 3; ++j) {
     const double c = p[g[static_cast<std::size_t>(j)]][axis];
-    if (c < level) ++below;
-    else if (c > level) ++above;
-    else on[n_on++] = j;
+    if (c < level)
+      ++below;
+    else if (c > level)
+      ++above;
+    else
+      on[n_on++] = j;
   }
   if (below > 0 && above > 0) return triangles_intersect_3d(h, g, s, p);  // crosses the plane
   if (n_on == 0) return false;
@@ -215,8 +220,7 @@ bool triangles_intersect(Tri h, Tri g, const std::vector<P3>& p) {
   const std::uint32_t q1 = g[static_cast<std::size_t>(on[1])];
   const int c0 = corner_of_h(q0), c1 = corner_of_h(q1);
   if (c0 >= 0 && c1 >= 0) return false;  // the shared edge
-  if (c0 < 0 && c1 < 0)
-    return segment_meets_triangle(flat(q0), flat(q1), h2);
+  if (c0 < 0 && c1 < 0) return segment_meets_triangle(flat(q0), flat(q1), h2);
   // One end is a corner of h: the edge enters h iff its other end lies in h's closed angle there.
   const int c = c0 >= 0 ? c0 : c1;
   const P2 q = flat(c0 >= 0 ? q1 : q0);
@@ -257,8 +261,8 @@ MeshInspection inspect_mesh(const Mesh& mesh, bool check_self_intersection) {
 
   // Classify triangles; welded, usable ones go on to the edge map and the intersection test.
   std::vector<Tri> tri(mesh.triangles.size());
-  std::vector<char> usable(mesh.triangles.size(), 0);     // indices in range, finite
-  std::vector<char> proper(mesh.triangles.size(), 0);     // usable and not degenerate
+  std::vector<char> usable(mesh.triangles.size(), 0);  // indices in range, finite
+  std::vector<char> proper(mesh.triangles.size(), 0);  // usable and not degenerate
   double volume6 = 0;
   for (std::size_t k = 0; k < mesh.triangles.size(); ++k) {
     const auto& t = mesh.triangles[k];
@@ -269,7 +273,8 @@ MeshInspection inspect_mesh(const Mesh& mesh, bool check_self_intersection) {
     }
     usable[k] = 1;
     tri[k] = {weld[t[0]], weld[t[1]], weld[t[2]]};
-    const bool repeated = tri[k][0] == tri[k][1] || tri[k][1] == tri[k][2] || tri[k][0] == tri[k][2];
+    const bool repeated =
+        tri[k][0] == tri[k][1] || tri[k][1] == tri[k][2] || tri[k][0] == tri[k][2];
     if (repeated || CGAL::collinear(pts[tri[k][0]], pts[tri[k][1]], pts[tri[k][2]]))
       ++r.degenerate_triangles;
     else
@@ -341,7 +346,8 @@ MeshInspection inspect_mesh(const Mesh& mesh, bool check_self_intersection) {
     for (const Box& b : boxes) handles.push_back(&b);
     bool found = false;
     CGAL::box_self_intersection_d(handles.begin(), handles.end(), [&](const Box* a, const Box* b) {
-      if (!found && a->info() != b->info() && triangles_intersect(tri[a->info()], tri[b->info()], pts))
+      if (!found && a->info() != b->info() &&
+          triangles_intersect(tri[a->info()], tri[b->info()], pts))
         found = true;
     });
     r.self_intersects = found;

@@ -169,7 +169,10 @@ class Layer {
     return out;
   }
 
-  std::size_t group_count() const { return groups_.size(); }
+  /// The 2D point of a (group, point) pair.
+  Vec2 point(const std::pair<std::uint32_t, std::uint32_t>& v) const {
+    return groups_[v.first]->points[v.second];
+  }
 
  private:
   Cdt::Vertex_handle handle(std::size_t g, std::uint32_t i) const {
@@ -254,8 +257,8 @@ Mesh build_part(const PartSpec& spec) {
   if (spec.outline.empty()) fail("the outline is empty");
   const bool engraved = !spec.engraving.empty();
   if (engraved && (!std::isfinite(d) || d <= 0 || d >= t))
-    fail("engraving_depth_mm = " + std::to_string(d) + ", expected 0 < depth < thickness_mm = " +
-         std::to_string(t));
+    fail("engraving_depth_mm = " + std::to_string(d) +
+         ", expected 0 < depth < thickness_mm = " + std::to_string(t));
 
   const RingGroup outline = group_of_regions("outline", spec.outline.polygonize(spec.chord_mm));
   std::vector<const Ring*> engraving_rings;
@@ -268,12 +271,11 @@ Mesh build_part(const PartSpec& spec) {
     const std::string name = "cavity " + std::to_string(k);
     if (!(std::isfinite(c.z0_mm) && std::isfinite(c.z1_mm) && 0 < c.z0_mm && c.z0_mm < c.z1_mm &&
           c.z1_mm < t))
-      fail(name + ": z0_mm = " + std::to_string(c.z0_mm) + ", z1_mm = " +
-           std::to_string(c.z1_mm) + ", expected 0 < z0 < z1 < thickness_mm = " +
-           std::to_string(t));
+      fail(name + ": z0_mm = " + std::to_string(c.z0_mm) + ", z1_mm = " + std::to_string(c.z1_mm) +
+           ", expected 0 < z0 < z1 < thickness_mm = " + std::to_string(t));
     if (c.region.empty()) fail(name + ": the region is empty");
-    cavities.push_back({group_of_regions(name, c.region.polygonize(spec.chord_mm)), c.z0_mm,
-                        c.z1_mm});
+    cavities.push_back(
+        {group_of_regions(name, c.region.polygonize(spec.chord_mm)), c.z0_mm, c.z1_mm});
   }
 
   // Triangulations: the bottom face, the top face with the engraving, and one per cavity (which
@@ -282,10 +284,11 @@ Mesh build_part(const PartSpec& spec) {
   const Layer top = engraved ? Layer({&outline, &engraving}, "engraving in the outline")
                              : Layer({&outline}, "outline");
   if (engraved) {
-    const auto stray = top.faces([&](Cdt::Face_handle f) { return top.inside(f, 1) && !top.inside(f, 0); });
+    const auto stray =
+        top.faces([&](Cdt::Face_handle f) { return top.inside(f, 1) && !top.inside(f, 0); });
     if (!stray.empty())
       fail("the engraving reaches outside the outline near " +
-           point_text(engraving.points[stray.front()[0].second]));
+           point_text(top.point(stray.front()[0])));
   }
   std::vector<std::unique_ptr<Layer>> cavity_layers;
   for (std::size_t k = 0; k < cavities.size(); ++k) {
@@ -293,11 +296,15 @@ Mesh build_part(const PartSpec& spec) {
     cavity_layers.push_back(std::make_unique<Layer>(
         std::vector<const RingGroup*>{&outline, &c.group}, c.group.name + " in the outline"));
     const Layer& layer = *cavity_layers.back();
-    const auto stray = layer.faces([&](Cdt::Face_handle f) { return layer.inside(f, 1) && !layer.inside(f, 0); });
-    if (!stray.empty()) fail(c.group.name + " reaches outside the outline");
+    const auto stray =
+        layer.faces([&](Cdt::Face_handle f) { return layer.inside(f, 1) && !layer.inside(f, 0); });
+    if (!stray.empty())
+      fail(c.group.name + " reaches outside the outline near " +
+           point_text(layer.point(stray.front()[0])));
     if (engraved && c.z1_mm >= t - d) {
       const Layer both({&engraving, &c.group}, c.group.name + " under the engraving");
-      if (!both.faces([&](Cdt::Face_handle f) { return both.inside(f, 0) && both.inside(f, 1); }).empty())
+      if (!both.faces([&](Cdt::Face_handle f) { return both.inside(f, 0) && both.inside(f, 1); })
+               .empty())
         fail(c.group.name + " reaches z1_mm = " + std::to_string(c.z1_mm) +
              " under the engraving, whose floor is at " + std::to_string(t - d) + " mm");
     }
@@ -305,7 +312,8 @@ Mesh build_part(const PartSpec& spec) {
       const CavityRings& o = cavities[j];
       if (c.z1_mm < o.z0_mm || o.z1_mm < c.z0_mm) continue;  // apart in z
       const Layer both({&o.group, &c.group}, o.group.name + " and " + c.group.name);
-      if (!both.faces([&](Cdt::Face_handle f) { return both.inside(f, 0) && both.inside(f, 1); }).empty())
+      if (!both.faces([&](Cdt::Face_handle f) { return both.inside(f, 0) && both.inside(f, 1); })
+               .empty())
         fail(o.group.name + " and " + c.group.name + " overlap");
     }
   }
@@ -365,7 +373,8 @@ Mesh build_part(const PartSpec& spec) {
     }
     // Engraving floors, facing up.
     std::vector<Tri> tris;
-    for (const auto& f : top.faces([&](Cdt::Face_handle h) { return top.inside(h, 0) && top.inside(h, 1); })) {
+    for (const auto& f :
+         top.faces([&](Cdt::Face_handle h) { return top.inside(h, 0) && top.inside(h, 1); })) {
       for (const auto& v : f)
         if (v.first != 1) fail("an outline vertex lies inside the engraving");
       tris.push_back({ef + f[0].second, ef + f[1].second, ef + f[2].second});

@@ -35,7 +35,7 @@ using GPolygon = Traits::General_polygon_2;
 using GPolygonWithHoles = Traits::General_polygon_with_holes_2;
 using Curve = Traits::Curve_2;
 using XCurve = Traits::X_monotone_curve_2;
-using OPoint = Traits::Point_2;             // coordinates a0 + a1·sqrt(root)
+using OPoint = Traits::Point_2;  // coordinates a0 + a1·sqrt(root)
 using CoordNT = OPoint::CoordNT;
 
 /// Largest number of polyline pieces one arc may become (guards against an absurd chord).
@@ -264,8 +264,8 @@ void append_arc_polyline(std::vector<Vec2>& out, const ArcGeometry& g, double ch
   while (polyline_deviation(r, rho, sweep_abs / n, n) > chord_mm) {
     if (++n > kMaxPiecesPerArc)
       fail("polygonize: chord_mm = " + std::to_string(chord_mm) + " needs more than " +
-           std::to_string(kMaxPiecesPerArc) + " pieces for an arc of radius " +
-           std::to_string(r) + " mm");
+           std::to_string(kMaxPiecesPerArc) + " pieces for an arc of radius " + std::to_string(r) +
+           " mm");
     rho = area_keeping_radius(r, sweep_abs, n);
   }
   out.push_back(g.from);
@@ -367,9 +367,7 @@ std::shared_ptr<const Profile::Impl> make_impl(Gps set) {
   impl->set = std::move(set);
   return impl;
 }
-std::shared_ptr<const Profile::Impl> make_impl(const GPolygon& pgn) {
-  return make_impl(Gps(pgn));
-}
+std::shared_ptr<const Profile::Impl> make_impl(const GPolygon& pgn) { return make_impl(Gps(pgn)); }
 }  // namespace
 
 Profile::Profile() = default;
@@ -425,8 +423,7 @@ Profile Profile::polygon(const std::vector<Vec2>& points) {
   if (poly.orientation() == CGAL::CLOCKWISE) poly.reverse_orientation();
   GPolygon pgn;
   for (std::size_t i = 0; i < poly.size(); ++i)
-    push_segment(pgn, poly[static_cast<int>(i)],
-                 poly[static_cast<int>((i + 1) % poly.size())]);
+    push_segment(pgn, poly[static_cast<int>(i)], poly[static_cast<int>((i + 1) % poly.size())]);
   return Profile(make_impl(pgn));
 }
 
@@ -453,9 +450,10 @@ Profile Profile::annular_sector(Vec2 centre, double r_in_mm, double r_out_mm, do
   check_radius("annular_sector (outer)", r_out_mm);
   if (!finite(r_in_mm) || r_in_mm < 0 || r_in_mm >= r_out_mm || !finite(a0_deg) ||
       !finite(a1_deg) || a1_deg <= a0_deg || a1_deg - a0_deg > 360)
-    fail("annular_sector: r_in_mm = " + std::to_string(r_in_mm) + ", r_out_mm = " +
-         std::to_string(r_out_mm) + ", a0_deg = " + std::to_string(a0_deg) + ", a1_deg = " +
-         std::to_string(a1_deg) + ", expected 0 <= r_in < r_out and a0 < a1 <= a0 + 360");
+    fail("annular_sector: r_in_mm = " + std::to_string(r_in_mm) +
+         ", r_out_mm = " + std::to_string(r_out_mm) + ", a0_deg = " + std::to_string(a0_deg) +
+         ", a1_deg = " + std::to_string(a1_deg) +
+         ", expected 0 <= r_in < r_out and a0 < a1 <= a0 + 360");
   if (a1_deg - a0_deg == 360) {
     Profile outer = disc(centre, r_out_mm);
     return r_in_mm > 0 ? outer - disc(centre, r_in_mm) : outer;

@@ -1,18 +1,18 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Engraving text from the system font through Cairo.
 
-#include <catch2/catch.hpp>
+#include "geom/kernel/glyphs.hpp"
 
 #include <cairo.h>
 
 #include <algorithm>
-#include <string>
+#include <catch2/catch.hpp>
 #include <cmath>
+#include <string>
 #include <vector>
 
 #include "geom/base/angle.hpp"
 #include "geom/base/error.hpp"
-#include "geom/kernel/glyphs.hpp"
 #include "geom/kernel/mesh_check.hpp"
 #include "geom/kernel/part.hpp"
 #include "geom/kernel/profile.hpp"
@@ -36,7 +36,8 @@ std::array<double, 4> box_of(const std::vector<Ring>& rings) {
 
 }  // namespace
 
-TEST_CASE("glyphs: digits are set at the digit height, centred on the placement", "[kernel][glyphs]") {
+TEST_CASE("glyphs: digits are set at the digit height, centred on the placement",
+          "[kernel][glyphs]") {
   const double h = 4;
   const Vec2 ext = text_extent("0123456789", h);
   CHECK(ext[1] == Approx(h).epsilon(1e-9));
@@ -52,7 +53,8 @@ TEST_CASE("glyphs: digits are set at the digit height, centred on the placement"
   CHECK(text_extent("1", h)[1] <= h);
 }
 
-TEST_CASE("glyphs: text reads correctly seen from +z and turns with its angle", "[kernel][glyphs]") {
+TEST_CASE("glyphs: text reads correctly seen from +z and turns with its angle",
+          "[kernel][glyphs]") {
   const double h = 10;
   const auto rings = text_outline("7", {{0, 0}, h, 0}, 0.01);
   // "7": a bar across the top, a stroke down to the lower left.
@@ -102,7 +104,8 @@ TEST_CASE("glyphs: empty text has no outline, bad sizes are internal errors", "[
   CHECK_THROWS_AS(text_extent("1", -2), InternalError);
 }
 
-TEST_CASE("glyphs: the digits' thinnest stroke holds against a raster measurement", "[kernel][glyphs]") {
+TEST_CASE("glyphs: the digits' thinnest stroke holds against a raster measurement",
+          "[kernel][glyphs]") {
   const double f = digit_stroke_fraction();
   // A bold sans face: strokes between a tenth and a third of the digit height (common practice,
   // no source).
@@ -166,7 +169,8 @@ TEST_CASE("glyphs: the digits' thinnest stroke holds against a raster measuremen
   CHECK(min_kept_thick < 0.5 * min_kept_thin);
 }
 
-TEST_CASE("glyphs: neighbouring glyphs never touch, so any label can be engraved", "[kernel][glyphs]") {
+TEST_CASE("glyphs: neighbouring glyphs never touch, so any label can be engraved",
+          "[kernel][glyphs]") {
   // Some letter pairs meet exactly at their advance ("AV"); glyphs are set slightly apart.
   std::vector<std::string> labels{"HEAVY", "AVAV", "LIGHT", "-12.5", "g\xC2\xB7mm", "90\xC2\xB0"};
   for (int n = 0; n < 100; ++n) labels.push_back(std::to_string(n));

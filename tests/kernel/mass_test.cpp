@@ -1,12 +1,12 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Mass properties by the divergence theorem against closed forms.
 
-#include <catch2/catch.hpp>
+#include "geom/kernel/mass.hpp"
 
+#include <catch2/catch.hpp>
 #include <cmath>
 
 #include "geom/base/angle.hpp"
-#include "geom/kernel/mass.hpp"
 #include "geom/kernel/part.hpp"
 #include "test_meshes.hpp"
 

@@ -1,11 +1,11 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Mesh inspection on hand-made broken meshes.
 
-#include <catch2/catch.hpp>
+#include "geom/kernel/mesh_check.hpp"
 
+#include <catch2/catch.hpp>
 #include <cmath>
 
-#include "geom/kernel/mesh_check.hpp"
 #include "test_meshes.hpp"
 
 using namespace trimwright::kernel;
@@ -67,16 +67,19 @@ TEST_CASE("mesh_check: two intersecting boxes self-intersect", "[kernel][mesh_ch
   CHECK_FALSE(in.valid());
 }
 
-TEST_CASE("mesh_check: boxes apart are valid, boxes sharing a face are not", "[kernel][mesh_check]") {
-  const MeshInspection apart = inspect_mesh(merged(box_mesh({0, 0, 0}, {1, 1, 1}), box_mesh({2, 0, 0}, {3, 1, 1})));
+TEST_CASE("mesh_check: boxes apart are valid, boxes sharing a face are not",
+          "[kernel][mesh_check]") {
+  const MeshInspection apart =
+      inspect_mesh(merged(box_mesh({0, 0, 0}, {1, 1, 1}), box_mesh({2, 0, 0}, {3, 1, 1})));
   CHECK(apart.valid());
   CHECK(apart.components == 2);
   // Touching along a face (coplanar, overlapping): the surfaces meet.
-  const MeshInspection touching =
-      inspect_mesh(merged(box_mesh({0, 0, 0}, {1, 1, 1}), box_mesh({1, 0.25, 0.25}, {2, 0.75, 0.75})));
+  const MeshInspection touching = inspect_mesh(
+      merged(box_mesh({0, 0, 0}, {1, 1, 1}), box_mesh({1, 0.25, 0.25}, {2, 0.75, 0.75})));
   CHECK(touching.self_intersects);
   // A box sitting inside another one: no triangles meet, but that is not one solid either...
-  const MeshInspection nested = inspect_mesh(merged(box_mesh({0, 0, 0}, {4, 4, 4}), box_mesh({1, 1, 1}, {2, 2, 2})));
+  const MeshInspection nested =
+      inspect_mesh(merged(box_mesh({0, 0, 0}, {4, 4, 4}), box_mesh({1, 1, 1}, {2, 2, 2})));
   CHECK_FALSE(nested.self_intersects);
   CHECK(nested.components == 2);
 }
@@ -105,7 +108,8 @@ TEST_CASE("mesh_check: a non-manifold edge is counted", "[kernel][mesh_check]") 
   CHECK_FALSE(in.closed());
 }
 
-TEST_CASE("mesh_check: an unwelded soup (one vertex triple per facet) is welded", "[kernel][mesh_check]") {
+TEST_CASE("mesh_check: an unwelded soup (one vertex triple per facet) is welded",
+          "[kernel][mesh_check]") {
   const Mesh box = box_mesh({0, 0, 0}, {1, 1, 1});
   Mesh soup;
   for (const auto& t : box.triangles) {
@@ -146,7 +150,8 @@ bool meets_base(std::array<Vec3, 3> other) {
 }
 }  // namespace
 
-TEST_CASE("mesh_check: triangles touching a flat triangle are decided exactly", "[kernel][mesh_check]") {
+TEST_CASE("mesh_check: triangles touching a flat triangle are decided exactly",
+          "[kernel][mesh_check]") {
   // One corner resting on the plane, inside and outside the triangle.
   CHECK(meets_base({Vec3{1, 1, 0}, {1, 1, 2}, {2, 1, 2}}));
   CHECK_FALSE(meets_base({Vec3{5, 5, 0}, {5, 5, 2}, {6, 5, 2}}));

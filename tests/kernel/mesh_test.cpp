@@ -1,11 +1,12 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Plain mesh helpers.
 
+#include "geom/kernel/mesh.hpp"
+
 #include <catch2/catch.hpp>
 
 #include "geom/base/error.hpp"
 #include "geom/kernel/mass.hpp"
-#include "geom/kernel/mesh.hpp"
 #include "geom/kernel/mesh_check.hpp"
 #include "test_meshes.hpp"
 

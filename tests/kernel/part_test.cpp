@@ -2,12 +2,13 @@
 // 2.5D parts: closed, outward, free of self-intersections, with the volume and centroid of their
 // exact profiles; engravings and cavities; determinism; refusal of features that cross the outline.
 
-#include <catch2/catch.hpp>
+#include "geom/kernel/part.hpp"
 
 #include <algorithm>
-#include <ctime>
+#include <catch2/catch.hpp>
 #include <cmath>
 #include <cstdio>
+#include <ctime>
 #include <random>
 #include <string>
 #include <vector>
@@ -17,7 +18,6 @@
 #include "geom/kernel/glyphs.hpp"
 #include "geom/kernel/mass.hpp"
 #include "geom/kernel/mesh_check.hpp"
-#include "geom/kernel/part.hpp"
 
 using namespace trimwright;
 using namespace trimwright::kernel;
@@ -76,7 +76,8 @@ std::vector<Ring> numbers(int n, double r, double height) {
   std::vector<Ring> out;
   for (int k = 0; k < n; ++k) {
     const double a = 360.0 * k / n;
-    const TextPlacement at{{r * std::cos(deg_to_rad(a)), r * std::sin(deg_to_rad(a))}, height, a - 90};
+    const TextPlacement at{
+        {r * std::cos(deg_to_rad(a)), r * std::sin(deg_to_rad(a))}, height, a - 90};
     for (Ring& ring : text_outline(std::to_string(5 * k), at)) out.push_back(ring);
   }
   return out;
@@ -132,7 +133,8 @@ TEST_CASE("part: slot, bore and pockets keep the exact volume and centroid", "[k
   PartSpec s;
   s.outline = Profile::disc({0, 0}, 30) - Profile::obround({-1, 0}, {7, 0}, 8.05);
   for (double a : {150.0, 180.0, 210.0})
-    s.outline = s.outline - Profile::disc({20 * std::cos(deg_to_rad(a)), 20 * std::sin(deg_to_rad(a))}, 3.2);
+    s.outline = s.outline -
+                Profile::disc({20 * std::cos(deg_to_rad(a)), 20 * std::sin(deg_to_rad(a))}, 3.2);
   s.thickness_mm = 5;
   const Mesh m = build_part(s);
   check_solid(m, s);
@@ -208,7 +210,8 @@ TEST_CASE("part: features that cross or leave the outline are internal errors", 
   base.thickness_mm = 5;
   base.engraving_depth_mm = 0.5;
   auto square_at = [](double x, double y, double half) {
-    return Ring{{{x - half, y - half}, {x + half, y - half}, {x + half, y + half}, {x - half, y + half}}};
+    return Ring{
+        {{x - half, y - half}, {x + half, y - half}, {x + half, y + half}, {x - half, y + half}}};
   };
   SECTION("an engraving across the rim") {
     PartSpec s = base;
@@ -282,7 +285,9 @@ TEST_CASE("part: features that cross or leave the outline are internal errors", 
 TEST_CASE("part: random discs with slots, pockets and engravings are all valid",
           "[kernel][part][slow]") {
   std::mt19937 rng(20261202);
-  auto uni = [&rng](double lo, double hi) { return std::uniform_real_distribution<double>(lo, hi)(rng); };
+  auto uni = [&rng](double lo, double hi) {
+    return std::uniform_real_distribution<double>(lo, hi)(rng);
+  };
   int built = 0;
   for (int iter = 0; iter < 300; ++iter) {
     const double r = uni(15, 45), t = uni(2, 8);
@@ -291,15 +296,16 @@ TEST_CASE("part: random discs with slots, pockets and engravings are all valid",
     const double ca = std::cos(deg_to_rad(slot_angle)), sa = std::sin(deg_to_rad(slot_angle));
     PartSpec s;
     s.chord_mm = iter % 2 == 0 ? 0.01 : uni(0.005, 0.05);
-    const Vec2 a{slot_x - ca * slot_len / 2, -sa * slot_len / 2}, b{slot_x + ca * slot_len / 2, sa * slot_len / 2};
+    const Vec2 a{slot_x - ca * slot_len / 2, -sa * slot_len / 2},
+        b{slot_x + ca * slot_len / 2, sa * slot_len / 2};
     s.outline = Profile::disc({0, 0}, r) - Profile::obround(a, b, slot_r);
     s.thickness_mm = t;
     // Pockets on a ring between the slot and the scale, spaced apart.
     const double inner = slot_len / 2 + std::fabs(slot_x) + slot_r;
     // Neighbours 40° apart stay 1 mm clear of each other; pockets stay 1 mm inside the rim.
     const double pocket_r = uni(1, 3);
-    const double ring_r = std::max(inner + pocket_r + uni(1, 2),
-                                   (2 * pocket_r + 1) / (2 * std::sin(deg_to_rad(20))));
+    const double ring_r =
+        std::max(inner + pocket_r + uni(1, 2), (2 * pocket_r + 1) / (2 * std::sin(deg_to_rad(20))));
     const int pockets = ring_r + pocket_r + 1 < r ? static_cast<int>(uni(0, 4)) : 0;
     const double scale_r0 = ring_r + pocket_r + 1.5;
     for (int k = 0; k < pockets; ++k) {
@@ -316,7 +322,8 @@ TEST_CASE("part: random discs with slots, pockets and engravings are all valid",
       const double text_h = std::min(2.5, (r - 4 - scale_r0) * 0.8);
       if (text_h > 1) {
         const double text_r = (scale_r0 + r - 4) / 2;
-        for (Ring& ring : text_outline(std::to_string(iter), {{-text_r, 0}, text_h, 90})) s.engraving.push_back(ring);
+        for (Ring& ring : text_outline(std::to_string(iter), {{-text_r, 0}, text_h, 90}))
+          s.engraving.push_back(ring);
       }
     }
     INFO("iteration " << iter << ", R " << r << ", slot " << slot_r << " x " << slot_len);
@@ -342,7 +349,9 @@ TEST_CASE("part: timing of build, inspection and mass properties", "[kernel][par
     std::sort(v.begin(), v.end());
     return v[v.size() / 2];
   };
-  auto ms_since = [](std::clock_t t0) { return 1000.0 * double(std::clock() - t0) / CLOCKS_PER_SEC; };
+  auto ms_since = [](std::clock_t t0) {
+    return 1000.0 * double(std::clock() - t0) / CLOCKS_PER_SEC;
+  };
   std::vector<double> build_ms, inspect_ms, mass_ms;
   Mesh m;
   MeshInspection in;
@@ -358,10 +367,11 @@ TEST_CASE("part: timing of build, inspection and mass properties", "[kernel][par
     mass_ms.push_back(ms_since(t0));
     CHECK(p.volume_mm3 > 0);
   }
-  std::printf("kernel timing (CPU, median of 15): build_part %.2f ms, inspect_mesh %.2f ms, "
-              "mass_properties %.3f ms; %zu vertices, %zu triangles\n",
-              median_ms(build_ms), median_ms(inspect_ms), median_ms(mass_ms), m.vertices.size(),
-              m.triangles.size());
+  std::printf(
+      "kernel timing (CPU, median of 15): build_part %.2f ms, inspect_mesh %.2f ms, "
+      "mass_properties %.3f ms; %zu vertices, %zu triangles\n",
+      median_ms(build_ms), median_ms(inspect_ms), median_ms(mass_ms), m.vertices.size(),
+      m.triangles.size());
   CHECK(in.valid());
   // Generous bounds (a loaded 2-core machine): the targets are a few milliseconds each.
   CHECK(median_ms(build_ms) < 50);

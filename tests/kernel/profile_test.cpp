@@ -1,15 +1,15 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Exact profiles: area moments against closed forms, Boolean operations, polygonisation.
 
-#include <catch2/catch.hpp>
+#include "geom/kernel/profile.hpp"
 
 #include <algorithm>
+#include <catch2/catch.hpp>
 #include <cmath>
 #include <vector>
 
 #include "geom/base/angle.hpp"
 #include "geom/base/error.hpp"
-#include "geom/kernel/profile.hpp"
 
 using namespace trimwright;
 using namespace trimwright::kernel;
@@ -55,7 +55,8 @@ double polyline_distance_from_circle(const Ring& r, Vec2 c, double radius) {
 
 }  // namespace
 
-TEST_CASE("profile: circular segment area and centroid match the closed form", "[kernel][profile]") {
+TEST_CASE("profile: circular segment area and centroid match the closed form",
+          "[kernel][profile]") {
   // Circular segment, radius R, angle θ: A = R²(θ − sin θ)/2, centroid 4R·sin³(θ/2)/(3(θ − sin θ))
   // from the centre (CRC Standard Mathematical Tables; MathWorld "Circular Segment").
   const double r = 50, theta = deg_to_rad(120);
@@ -165,8 +166,8 @@ TEST_CASE("profile: annular sector area and centroid", "[kernel][profile]") {
   struct Case {
     double ri, ro, a0, a1;
   };
-  for (const Case& c : {Case{10, 25, 20, 80}, Case{0, 25, -30, 30}, Case{5, 25, 0, 270},
-                        Case{12, 20, 45, 225}}) {
+  for (const Case& c :
+       {Case{10, 25, 20, 80}, Case{0, 25, -30, 30}, Case{5, 25, 0, 270}, Case{12, 20, 45, 225}}) {
     const double alpha = deg_to_rad(c.a1 - c.a0) / 2, mid = deg_to_rad(c.a0 + c.a1) / 2;
     const double area = alpha * (c.ro * c.ro - c.ri * c.ri);
     const double dist = 2 * (std::pow(c.ro, 3) - std::pow(c.ri, 3)) * std::sin(alpha) /
@@ -220,8 +221,8 @@ TEST_CASE("profile: bounds and containment use the exact arcs", "[kernel][profil
   CHECK(b.min[1] == Approx(-3).margin(1e-12));
   CHECK(b.max[1] == Approx(7).margin(1e-12));
   CHECK(p.contains({4.5, 2}));
-  CHECK_FALSE(p.contains({1, 2}));   // in the hole
-  CHECK_FALSE(p.contains({6, 2}));   // on the boundary: not strictly inside
+  CHECK_FALSE(p.contains({1, 2}));  // in the hole
+  CHECK_FALSE(p.contains({6, 2}));  // on the boundary: not strictly inside
   CHECK_FALSE(p.contains({9, 9}));
   // A quarter sector reaches its arc's top only if the top lies inside its span.
   const Box2 q = Profile::annular_sector({0, 0}, 0, 10, 30, 120).bounds();
@@ -243,7 +244,8 @@ TEST_CASE("profile: invalid shapes are internal errors", "[kernel][profile]") {
   CHECK_THROWS_AS(Profile::disc({0, 0}, 1).polygonize(0), InternalError);
 }
 
-TEST_CASE("profile: polygonize keeps a full circle's area and centroid exactly", "[kernel][profile]") {
+TEST_CASE("profile: polygonize keeps a full circle's area and centroid exactly",
+          "[kernel][profile]") {
   for (double chord : {0.1, 0.01, 0.001}) {
     const Vec2 c{3.25, -1.5};
     const double r = 30;
@@ -274,7 +276,8 @@ TEST_CASE("profile: polygonize keeps arc areas and chord error for Boolean resul
   const AreaMoments poly = polygon_moments(all_rings(regions));
   CHECK(poly.area_mm2 == rel(exact.area_mm2, 1e-12));
   // The first moment of an unsymmetric arc piece is not kept exactly (the polyline lies outside
-  // the arc mid-way and inside near its pinned ends); the centroid moves by far less than the chord.
+  // the arc mid-way and inside near its pinned ends); the centroid moves by far less than the
+  // chord.
   CHECK(poly.centroid()[0] == Approx(exact.centroid()[0]).margin(1e-4));
   CHECK(poly.centroid()[1] == Approx(exact.centroid()[1]).margin(1e-4));
   for (const Region& r : regions) {
@@ -306,7 +309,8 @@ TEST_CASE("profile: polygonize keeps a slot's centroid (symmetric arcs)", "[kern
   CHECK(std::fabs(poly.centroid()[1]) < 1e-11);
 }
 
-TEST_CASE("profile: polygonize is deterministic and starts rings canonically", "[kernel][profile]") {
+TEST_CASE("profile: polygonize is deterministic and starts rings canonically",
+          "[kernel][profile]") {
   auto make = [] {
     return (Profile::disc({0, 0}, 20) - Profile::disc({5, 5}, 4)) + Profile::disc({40, 0}, 5);
   };
@@ -315,7 +319,8 @@ TEST_CASE("profile: polygonize is deterministic and starts rings canonically", "
   for (std::size_t i = 0; i < a.size(); ++i) {
     CHECK(a[i].outer.points == b[i].outer.points);
     REQUIRE(a[i].holes.size() == b[i].holes.size());
-    for (std::size_t j = 0; j < a[i].holes.size(); ++j) CHECK(a[i].holes[j].points == b[i].holes[j].points);
+    for (std::size_t j = 0; j < a[i].holes.size(); ++j)
+      CHECK(a[i].holes[j].points == b[i].holes[j].points);
   }
   for (const Ring& r : all_rings(a))
     CHECK(r.points.front() == *std::min_element(r.points.begin(), r.points.end()));
@@ -331,7 +336,8 @@ TEST_CASE("profile: polygon_moments applies the even-odd rule whatever the orien
     return r;
   };
   // 10 × 10 square, a 4 × 4 hole, a 2 × 2 island in the hole; all rings drawn the same way.
-  const std::vector<Ring> rings{square(0, 0, 5, true), square(1, 0, 2, true), square(1.5, 0, 1, false)};
+  const std::vector<Ring> rings{square(0, 0, 5, true), square(1, 0, 2, true),
+                                square(1.5, 0, 1, false)};
   const AreaMoments m = polygon_moments(rings);
   CHECK(m.area_mm2 == rel(100 - 16 + 4));
   CHECK(m.sx_mm3 == rel(0 - 16 * 1 + 4 * 1.5));
