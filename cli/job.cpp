@@ -11,6 +11,7 @@
 #include <sstream>
 
 #include "cli/toml_reader.hpp"
+#include "geom/check/check.hpp"
 #include "geom/base/error.hpp"
 
 namespace trimwright::cli {
@@ -391,6 +392,14 @@ Job build_job(toml::table& root, const std::string& source) {
   if (const toml::table* c = sub("checks", false)) {
     TableReader t(*c, "checks", source, job.locations);
     job.accept = t.optional_strings("accept", "names of failed checks you knowingly accept").value_or(std::vector<std::string>{});
+    for (const auto& name : job.accept) {
+      const auto& known = check::check_names();
+      if (std::find(known.begin(), known.end(), name) == known.end()) {
+        std::string list;
+        for (const auto& k : known) list += (list.empty() ? "" : ", ") + k;
+        t.fail("accept", fmt::format("names of checks (\"{}\" is not one of {})", name, list));
+      }
+    }
     t.finish();
   }
   if (const toml::table* o = sub("output", false)) {

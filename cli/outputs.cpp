@@ -162,6 +162,7 @@ std::string report_json(const DesignRun& run, const std::vector<std::string>& ou
   for (const auto& k : run.checks) {
     Json kj;
     kj["name"] = k.name;
+    if (!k.subject.empty()) kj["subject"] = k.subject;
     kj["value"] = io::json_number(k.value, k.name);
     kj["limit"] = io::json_number(k.limit, k.name);
     kj["unit"] = k.unit;
