@@ -281,8 +281,11 @@ Mesh build_part(const PartSpec& spec) {
   // Triangulations: the bottom face, the top face with the engraving, and one per cavity (which
   // also proves the cavity lies inside the outline). Extra layers only check clearances.
   const Layer bottom({&outline}, "outline");
-  const Layer top = engraved ? Layer({&outline, &engraving}, "engraving in the outline")
-                             : Layer({&outline}, "outline");
+  std::unique_ptr<Layer> engraved_top;
+  if (engraved)
+    engraved_top = std::make_unique<Layer>(std::vector<const RingGroup*>{&outline, &engraving},
+                                           "engraving in the outline");
+  const Layer& top = engraved ? *engraved_top : bottom;  // without engraving the faces are the same
   if (engraved) {
     const auto stray =
         top.faces([&](Cdt::Face_handle f) { return top.inside(f, 1) && !top.inside(f, 0); });
