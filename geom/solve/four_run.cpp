@@ -53,6 +53,8 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
   double u_ref = 0;
   for (std::size_t i : trial_runs) {
     trials.push_back(run_weights(readings, runs[i], 1, false)[0]);
+    if (!(std::abs(trials.back()) > 1e-9 * run_trial_gmm(runs[i])))
+      fail_run(readings, i, "its trial weights cancel out; expected a trial weight");
     u_ref = std::max(u_ref, std::abs(trials.back()));
   }
   const auto n = static_cast<Eigen::Index>(trials.size());
@@ -60,9 +62,6 @@ std::vector<Cplx> solve_four_run(const Readings& readings, const SolveOptions& o
   Eigen::VectorXd y(n);
   for (Eigen::Index k = 0; k < n; ++k) {
     const Cplx u = trials[static_cast<std::size_t>(k)] / u_ref;
-    if (!(std::abs(u) > 1e-12))
-      fail_run(readings, trial_runs[static_cast<std::size_t>(k)],
-               "its weights cancel out; expected a trial weight");
     m(k, 0) = std::norm(u);
     m(k, 1) = u.real();
     m(k, 2) = u.imag();

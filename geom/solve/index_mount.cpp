@@ -40,6 +40,10 @@ std::vector<Cplx> solve_index(const Readings& readings, const SolveOptions& opti
     trials.push_back(run_weights(readings, run, 1, true)[0]);
     t_scale = std::max(t_scale, std::abs(trials.back()));
   }
+  double gross = 0;
+  for (const Run& run : runs) gross += run_trial_gmm(run);
+  if (fit_alpha && !(t_scale > 1e-9 * gross))
+    fail_readings(readings, "the trial weights cancel out in every run; expected a trial weight");
   for (Eigen::Index r = 0; r < n; ++r) {
     const Run& run = runs[static_cast<std::size_t>(r)];
     const double index = run.index_deg.value_or(0.0);

@@ -22,6 +22,8 @@ constexpr double kSingular = 1e-10;
 constexpr double kIllConditioned = 10.0;
 /// A fit whose residual RMS exceeds this fraction of the RMS reading is flagged (our choice).
 constexpr double kPoorFit = 0.10;
+/// More correction planes than any rotor here could need: a typing error.
+constexpr int kMaxPlanes = 16;
 /// A saved influence measured at a speed differing by more than this fraction is flagged.
 constexpr double kSpeedMismatch = 0.02;
 
@@ -41,11 +43,17 @@ int planes_of(const Readings& readings, const std::optional<InfluenceSet>& influ
   if (readings.planes < 0)
     fail_readings(readings,
                   format("planes = %d; expected 0 (from the runs) or more", readings.planes));
+  if (readings.planes > kMaxPlanes)
+    fail_readings(readings,
+                  format("planes = %d; expected at most %d", readings.planes, kMaxPlanes));
   if (readings.planes > 0) return readings.planes;
   if (influence) return influence->planes;
   int planes = 0;
   for (const Run& run : readings.runs)
     for (const TrialWeight& w : run.trial) planes = std::max(planes, w.plane);
+  if (planes > kMaxPlanes)
+    fail_readings(readings,
+                  format("a weight in plane %d; expected planes 1 to %d", planes, kMaxPlanes));
   if (planes == 0)
     fail_readings(readings, "no run has a weight; expected runs with weights in each plane");
   return planes;

@@ -13,10 +13,11 @@ namespace trimwright::solve {
 /// ISO 10816-1 evaluation zone, best first.
 enum class Zone { kA, kB, kC, kD };
 
-/// Zone boundaries for class I machines, velocity RMS in mm/s: A up to 0.71, B up to 1.8,
-/// C up to 4.5, D above (ISO 10816-1, class I).
+/// Upper limit of zone A for class I machines, velocity RMS mm/s (ISO 10816-1).
 inline constexpr double kZoneAB_mm_s = 0.71;
+/// Upper limit of zone B for class I machines, velocity RMS mm/s (ISO 10816-1).
 inline constexpr double kZoneBC_mm_s = 1.8;
+/// Upper limit of zone C for class I machines, velocity RMS mm/s (ISO 10816-1); above is D.
 inline constexpr double kZoneCD_mm_s = 4.5;
 
 /// A reading's severity.

@@ -57,6 +57,12 @@ std::vector<Cplx> solve_static(const Readings& readings, const SolveOptions& opt
     trials.push_back(run_weights(readings, run, 1, false)[0]);
     scale = std::max(scale, std::abs(trials.back()));
   }
+  double gross = 0;
+  for (const Run& run : runs) gross += run_trial_gmm(run);
+  if (!(scale > 1e-9 * gross))
+    fail_readings(readings,
+                  "the trial weights cancel out in every run; expected a trial weight "
+                  "that turns the rotor");
   for (Eigen::Index r = 0; r < n; ++r) {
     const double s = deg_to_rad(*runs[static_cast<std::size_t>(r)].settle_angle_deg);
     const Cplx t = trials[static_cast<std::size_t>(r)] / scale;

@@ -172,6 +172,12 @@ TEST_CASE("fit: too few runs, too few sensors and unseparated planes are errors"
             m.run("c", {weight(1, 2, 40, 90), weight(3, 4, 40, 90)})};
   CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("do not separate the planes"));
 
+  Readings many = m.readings(Method::kFit);
+  many.runs = three_plane_runs(m);
+  many.runs[1].trial[0].plane = 1000;
+  CHECK_THROWS_WITH(solve(many, {}),
+                    Catch::Contains("a weight in plane 1000; expected planes 1 to 16"));
+
   // Plane 3's weights move but no sensor responds to them.
   ModelRotor deaf = m;
   for (auto& row : deaf.alpha) row[2] = 0;

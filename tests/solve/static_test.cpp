@@ -107,6 +107,11 @@ TEST_CASE("static: degenerate stand readings", "[solve]") {
   r.runs[1].settle_angle_deg.reset();
   CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("no settle angle"));
 
+  Readings cancel;
+  cancel.method = Method::kStatic;
+  cancel.runs = {settled("a", 10), settled("b", 30, {weight(1, 1, 50, 0), weight(1, 1, 50, 180)})};
+  CHECK_THROWS_WITH(solve(cancel, {}), Catch::Contains("cancel out"));
+
   Readings no_trial;
   no_trial.method = Method::kStatic;
   no_trial.runs = {settled("a", 10), settled("b", 10)};
