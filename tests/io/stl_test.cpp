@@ -184,7 +184,7 @@ TEST_CASE("stl: ASCII reader takes CRLF, upper case, several solids and signed n
   CHECK(data.mesh.vertices[1] == kernel::Vec3{0, 10, 0});
 }
 
-TEST_CASE("stl: binary writing runs at 200 MB/s or more", "[io][stl][.perf]") {
+TEST_CASE("stl: binary writing runs at 200 MB/s or more", "[io][stl][.perf][slow]") {
   // A 1 million triangle mesh (50 MB of STL). Hidden: run with `tw_io_tests "[.perf]"` on an
   // idle machine; timings on shared CI cores are not reliable enough for a default test.
   const kernel::Mesh m = test::cylinder_mesh(40, 10, 250000);
