@@ -4,6 +4,7 @@
 // One include and one list entry per command.
 #include "cli/commands/design.hpp"
 #include "cli/commands/info.hpp"
+#include "cli/commands/listen.hpp"
 
 namespace trimwright::cli {
 
@@ -13,6 +14,7 @@ const std::vector<AddCommand>& all_commands() {
       &add_design_command,
       &add_init_command,
       &add_materials_command,
+      &add_listen_command,
   };
   return commands;
 }

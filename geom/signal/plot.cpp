@@ -221,8 +221,8 @@ void draw(cairo_t* cr, const Measurement& m) {
   text(cr, 20, 24, head, 13);
   cairo_select_font_face(cr, kFont, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
   text(cr, 20, 42,
-       fmt::format("axis {}, {} {}, SNR {:.1f} dB, {} blocks of {:.0f} rev", m.axis, m.speed_source,
-                   m.reference.empty() ? "" : "'" + m.reference + "'", m.confidence.snr_db, m.confidence.blocks,
+       fmt::format("axis {}, speed from the {}{}, SNR {:.1f} dB, {} blocks of {:.0f} rev", m.axis, m.speed_source,
+                   m.reference.empty() ? "" : " '" + m.reference + "'", m.confidence.snr_db, m.confidence.blocks,
                    m.confidence.revolutions_per_block),
        10);
   draw_spectrum(cr, m, 80, 62, 480, 270);
