@@ -249,6 +249,15 @@ solve::Readings read_readings(TableReader& t, const std::string& source) {
                                                                  : solve::PhaseSense::kLag;
   r.angles = read_angle_sense(t);
   r.correction_radius_mm = t.number_or("correction_radius_mm", 0, {0, 2000, true, true, "a radius in mm"});
+  r.keep_trial = t.boolean_or("keep_trial", false,
+                              "whether the last run's weights stay on the rotor (corrections add to them)");
+  if (t.has("planes"))
+    r.planes = static_cast<int>(t.integer("planes", 1, 2, "the number of correction planes"));
+  r.sensor_notes = t.optional_strings("sensor_notes", "where each sensor sits, one per sensor")
+                       .value_or(std::vector<std::string>{});
+  r.index_reference = t.choice("index_reference", {"adapter", "rotor"}, "adapter") == "rotor"
+                          ? solve::IndexReference::kRotor
+                          : solve::IndexReference::kAdapter;
   r.influence_file = t.optional_string("influence_file", "a saved influence-coefficient file").value_or("");
   r.save_influence = t.optional_string("save_influence", "where to save influence coefficients").value_or("");
   const toml::array* runs = t.optional_table_array("run");
@@ -289,6 +298,9 @@ FixtureSpec read_fixture(TableReader& t, std::string& material_name) {
   f.inserts = t.optional_string("inserts", "an insert kind (see `trimwright inserts`)").value_or("none");
   f.rim_diameter_mm = t.optional_number("rim_diameter_mm", kSmallLength);
   f.rim_thickness_mm = t.optional_number("rim_thickness_mm", {0, 100, false, true, "a rim thickness in mm"});
+  f.positions_deg = t.optional_numbers("positions_deg", {-360, 360, true, true, "a rim position in degrees"}).value_or(std::vector<double>{});
+  f.sized_for_gmm = t.optional_number("sized_for_gmm", {0, 1e7, false, true,
+                                      "the correction in g·mm the printed fixture was sized for"});
   t.finish();
   return f;
 }

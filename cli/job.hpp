@@ -63,6 +63,11 @@ struct FixtureSpec {
   std::string inserts = "none";
   std::optional<double> rim_diameter_mm;
   std::optional<double> rim_thickness_mm;
+  /// clamp-weights: the only angles (degrees, job's sense) where the rim takes a weight; empty: anywhere.
+  std::vector<double> positions_deg;
+  /// The correction the printed fixture was sized for (report.json `fixture.sized_for_gmm`):
+  /// pins the sizing so that a re-run rebuilds the same part, e.g. while trimming with it.
+  std::optional<double> sized_for_gmm;
 };
 
 /// [print]

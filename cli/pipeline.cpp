@@ -24,6 +24,8 @@ constexpr double kNutHeightRatio = 0.8;
 /// Without any stated room, the fixture stays within half the rotor's diameter.
 constexpr double kDefaultDiameterRatio = 0.5;
 
+}  // namespace
+
 fixture::Request make_request(const Job& job, const Correction& corr,
                               const std::optional<Tolerance>& tol, const DesignOptions& options,
                               std::vector<std::string>& warnings) {
@@ -31,6 +33,7 @@ fixture::Request make_request(const Job& job, const Correction& corr,
   r.need.unbalance_gmm = corr.unbalance_gmm;
   r.need.angle_deg = corr.angle_deg;
   if (tol) r.need.permissible_gmm = tol->permissible_gmm;
+  r.need.sized_for_gmm = job.fixture.sized_for_gmm;
   const MachineSpec& m = job.machine;
   fixture::MachineLimits& l = r.machine;
   l.speed_rpm = m.speed_rpm;
@@ -63,6 +66,7 @@ fixture::Request make_request(const Job& job, const Correction& corr,
   l.flange_diameter_mm = m.flange_diameter_mm;
   l.rim_diameter_mm = job.fixture.rim_diameter_mm;
   l.rim_thickness_mm = job.fixture.rim_thickness_mm;
+  r.positions_deg = job.fixture.positions_deg;
   l.rotor_mass_kg = job.rotor.mass_kg;
   l.rotor_bore_mm = job.rotor.bore_mm;
   l.rotor_width_mm = job.rotor.width_mm;
@@ -81,6 +85,8 @@ fixture::Request make_request(const Job& job, const Correction& corr,
       job.angles, job.machine.rotation == "cw" ? solve::Rotation::kCw : solve::Rotation::kCcw);
   return r;
 }
+
+namespace {
 
 check::Context make_check_context(const Job& job, const fixture::Request& req) {
   check::Context c;
@@ -118,12 +124,28 @@ std::optional<Tolerance> find_tolerance(const Job& job) {
 DesignRun run_design(const Job& job, const DesignOptions& options) {
   DesignRun run;
   run.job = job;
-  run.correction = find_correction(job);
+  run.correction = find_correction(job, options.plane);
   run.tolerance = find_tolerance(job);
   fixture::Request req = make_request(job, run.correction, run.tolerance, options, run.warnings);
   std::string family = options.family.value_or(job.fixture.family);
   run.design = fixture::design_family(family, req);
-  run.checks = check::run_checks(run.design, make_check_context(job, req));
+  check::Context context = make_check_context(job, req);
+  context.clamp_screw_diameter_mm = run.design.clamp_screw_diameter_mm;
+  run.checks = check::run_checks(run.design, context);
+  // Mounting slop: a rotor that can sit e off the axis carries up to M·e by itself (U = M·e,
+  // M in kg → g with 1000), whatever the fixture does; say so when that alone exceeds the grade.
+  const double slop_mm = job.rotor.bore_clearance_mm > 0 ? job.rotor.bore_clearance_mm
+                         : job.rotor.bore_mm ? (*job.rotor.bore_mm - job.machine.spindle_diameter_mm) / 2
+                                             : 0.0;
+  const double slop_gmm = job.rotor.mass_kg * 1000.0 * slop_mm;
+  if (run.tolerance && slop_gmm > run.tolerance->permissible_gmm)
+    run.warnings.push_back(fmt::format(
+        "mounting slop: the rotor can sit {:.2f} mm off the axis, up to {:.1f} g·mm of unbalance by "
+        "itself, more than the {} tolerance of {:.1f} g·mm{}",
+        slop_mm, slop_gmm, run.tolerance->grade, run.tolerance->permissible_gmm,
+        run.design.family == "bore-sleeve"
+            ? ": the bore sleeve takes most of it up"
+            : ": take up the slop first (family = \"bore-sleeve\", or centre the rotor as it will run)"));
   run.file_stem = io::sanitize_file_stem(job.title, "trimwright");
   for (const auto& n : run.correction.notes) run.warnings.push_back(n);
   for (const auto& w : run.design.warnings) run.warnings.push_back(w);

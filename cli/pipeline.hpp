@@ -11,6 +11,7 @@
 #include "cli/job.hpp"
 #include "geom/check/check.hpp"
 #include "geom/fixture/fixture.hpp"
+#include "geom/solve/solve.hpp"
 
 namespace trimwright::cli {
 
@@ -34,6 +35,7 @@ struct Tolerance {
 struct DesignOptions {
   std::optional<std::string> family;   ///< --family overrides [fixture] family
   std::vector<std::pair<std::string, double>> weighed_g;  ///< chart --weighed PART=GRAMS
+  int plane = 1;                       ///< which plane's correction to build (two-plane readings)
 };
 
 /// Everything a design produced, before writing.
@@ -47,8 +49,25 @@ struct DesignRun {
   std::string file_stem;               ///< sanitised title for output names
 };
 
-/// The correction for a job: the given one, or solved from its readings.
-Correction find_correction(const Job& job);
+/// A job's readings solved (recordings measured, logged fixture settings turned into weights).
+struct SolvedJob {
+  solve::SolveResult result;
+  std::vector<std::string> notes;   ///< measurement remarks
+  bool trimming = false;            ///< runs named fixture settings
+  std::string saved_influence;      ///< where the influence coefficients were saved (if asked)
+};
+
+/// Solve a job's [readings]. Throws InputError for readings the method cannot use.
+SolvedJob solve_job(const Job& job);
+
+/// The correction for a job: the given one, or solved from its readings (plane `plane`).
+Correction find_correction(const Job& job, int plane = 1);
+
+/// The fixture request for a job and a correction (limits, defaults, printing); defaults it had
+/// to assume are added to `warnings`.
+fixture::Request make_request(const Job& job, const Correction& correction,
+                              const std::optional<Tolerance>& tolerance, const DesignOptions& options,
+                              std::vector<std::string>& warnings);
 
 /// The tolerance for a job's grade, if any.
 std::optional<Tolerance> find_tolerance(const Job& job);

@@ -167,6 +167,14 @@ std::string TableReader::choice(const std::string& key, const std::vector<std::s
   fail(key, fmt::format("one of {}", list));
 }
 
+bool TableReader::boolean_or(const std::string& key, bool fallback, const char* what) {
+  const toml::node* n = node(key);
+  if (!n) return fallback;
+  auto b = n->as_boolean();
+  if (!b) fail(key, fmt::format("true or false: {}", what));
+  return b->get();
+}
+
 std::optional<std::vector<std::string>> TableReader::optional_strings(const std::string& key,
                                                                      const char* what) {
   const toml::node* n = node(key);

@@ -56,6 +56,8 @@ class TableReader {
   /// A string that must be one of `choices`, with a default.
   std::string choice(const std::string& key, const std::vector<std::string>& choices,
                      const std::string& fallback);
+  /// A boolean with a default.
+  bool boolean_or(const std::string& key, bool fallback, const char* what);
   /// An optional array of strings.
   std::optional<std::vector<std::string>> optional_strings(const std::string& key,
                                                           const char* what);
