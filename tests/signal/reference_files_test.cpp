@@ -1,8 +1,11 @@
 // SPDX-License-Identifier: GPL-3.0-or-later
 // Writes synthetic recordings and our readings of them for the independent NumPy check
-// (reference_fft.py, ctest entry signal_numpy_reference). Hidden: runs only when asked by tag.
+// (reference_fft.py, ctest entry signal_numpy_reference). The ctest fixture names the folder in
+// TRIMWRIGHT_SIGNAL_REFERENCE_DIR; any other run writes to its own folder, so two runs never
+// write the same manifest at once.
 #include <catch2/catch.hpp>
 
+#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 
@@ -12,8 +15,11 @@
 using namespace trimwright::signal;
 using namespace trimwright::signal::test;
 
-TEST_CASE("signal: reference recordings for the NumPy check", "[.][reference-files]") {
-  const std::filesystem::path dir = std::filesystem::path(TRIMWRIGHT_BINARY_DIR) / "tests" / "signal" / "reference";
+TEST_CASE("signal: reference recordings for the NumPy check", "[signal][reference-files]") {
+  const char* env = std::getenv("TRIMWRIGHT_SIGNAL_REFERENCE_DIR");
+  const std::filesystem::path dir =
+      env && *env ? std::filesystem::path(env)
+                  : std::filesystem::path(TRIMWRIGHT_BINARY_DIR) / "tests" / "signal" / "data" / "reference-check";
   std::filesystem::create_directories(dir);
   std::ofstream manifest(dir / "manifest.csv");
   manifest.precision(10);
