@@ -103,8 +103,10 @@ struct SolveResult {
   /// The influence coefficients fitted (ready for save_influence) or used.
   std::optional<InfluenceSet> influence;
   std::vector<ReadingFit> readings;  ///< every reading against the model
-  double residual_rms = 0;           ///< RMS of ReadingFit::residual, reading units
-  int redundancy = 0;                ///< readings beyond the unknowns (0 = exactly determined)
+  double residual_rms =
+      0;  ///< RMS of the residuals: reading units (static: settle angles, degrees)
+  int redundancy =
+      0;  ///< equations beyond the unknowns (complex ones for phase methods; 0 = exact)
   std::optional<double> condition_number;     ///< of the influence matrix (two or more planes)
   std::optional<StaticCouple> static_couple;  ///< two planes
   std::vector<PredictedVibration> predicted;  ///< per sensor after the correction (phase methods)

@@ -38,8 +38,8 @@ TEST_CASE("two-plane: data quoted from an application note", "[solve]") {
   // J. Vaughan, "Static and dynamic balancing using portable measuring equipment", application
   // note 17-227, example 6 (seen second-hand; references.md): X0 = (170∠112, 53∠78); 1.15 g in
   // plane 1 → (235∠94, 58∠68); 1.15 g in plane 2 → (185∠115, 77∠104) → W1 = 1.979 g∠236.17°,
-  // W2 = 1.071 g∠121.84°. Trial angles are not quoted; 0° reproduces the answer. Our exact
-  // solution is 1.9795 g and 1.0705 g, which round either way at the last quoted digit.
+  // W2 = 1.071 g∠121.84°. Trial angles are not quoted; 0° reproduces the answer (our exact
+  // solution: 1.97947 g∠236.170°, 1.07051 g∠121.844°).
   Readings r;
   r.method = Method::kTwoPlane;
   r.units = "um-pp";
