@@ -6,6 +6,7 @@
 #include "cli/commands/check.hpp"
 #include "cli/commands/design.hpp"
 #include "cli/commands/info.hpp"
+#include "cli/commands/inserts.hpp"
 #include "cli/commands/solve.hpp"
 #include "cli/commands/listen.hpp"
 
@@ -21,6 +22,7 @@ const std::vector<AddCommand>& all_commands() {
       &add_check_command,
       &add_init_command,
       &add_materials_command,
+      &add_inserts_command,
       &add_listen_command,
   };
   return commands;
