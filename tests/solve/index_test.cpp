@@ -90,3 +90,30 @@ TEST_CASE("index: runs at one position only are an error", "[solve]") {
   r.runs.pop_back();
   CHECK_THROWS_WITH(solve(r, {}), Catch::Contains("expected at least 2"));
 }
+
+TEST_CASE("index: noisy readings at four positions are fitted by least squares", "[solve]") {
+  const Cplx rotor = polar_deg(2.0, 70.0), adapter = polar_deg(0.8, 200.0);
+  const Cplx noise[] = {Cplx(0.02, -0.01), Cplx(-0.015, 0.02), Cplx(0.01, 0.01),
+                        Cplx(-0.02, -0.015)};
+  Readings r;
+  r.method = Method::kIndex;
+  const double positions[] = {0, 90, 180, 270};
+  for (int k = 0; k < 4; ++k)
+    r.runs.push_back(
+        indexed("k", adapter + rotor * polar_deg(1, positions[k]) + noise[k], positions[k]));
+  const SolveResult s = solve(r, {});
+  CHECK(s.redundancy == 2);
+  CHECK(s.residual_rms > 0.005);
+  CHECK(s.residual_rms < 0.03);
+  // Least squares with the columns 1 and e^{iψ} orthogonal over 0/90/180/270: the shares move by
+  // the mean of the noise only.
+  Cplx mean_noise = 0, turned_noise = 0;
+  for (int k = 0; k < 4; ++k) {
+    mean_noise += noise[k] / 4.0;
+    turned_noise += noise[k] * polar_deg(1, -positions[k]) / 4.0;
+  }
+  CHECK(s.adapter->adapter_reading.magnitude ==
+        Approx(std::abs(adapter + mean_noise)).epsilon(1e-12));
+  CHECK(s.adapter->rotor_reading.magnitude ==
+        Approx(std::abs(rotor + turned_noise)).epsilon(1e-12));
+}
