@@ -303,6 +303,10 @@ TEST_CASE("3mf reader: broken files give clear one-line input errors", "[io][3mf
   std::string cut = io::three_mf_bytes(sample_parts(), sample_metadata());
   cut.resize(cut.size() - 40);
   CHECK(input_error(cut).find("not a readable zip archive") != std::string::npos);
+  std::string flipped = io::three_mf_bytes(sample_parts(), sample_metadata());
+  flipped[flipped.size() / 2] =
+      static_cast<char>(flipped[flipped.size() / 2] ^ 0x5a);  // model data
+  CHECK(input_error(flipped).find("part '3D/3dmodel.model' is damaged") != std::string::npos);
   CHECK(input_error(io::detail::zip_bytes({{"readme.txt", "hello"}}))
             .find("without _rels/.rels or 3D/3dmodel.model") != std::string::npos);
   const std::string m = kTriangleModel;
