@@ -100,6 +100,11 @@ std::string input_error(const std::string& bytes) {
 }  // namespace
 
 TEST_CASE("3mf: the package holds the three OPC parts with the core namespace", "[io][3mf]") {
+  // Content type, relationship target and core namespace as the 3MF Core Specification gives
+  // them (3MF Consortium, "3MF Core Specification", github.com/3MFConsortium/spec_core: the
+  // chapters on the package and the model, and the appendix of standard namespaces and content
+  // types; chapter names from memory). lib3mf reading the same files (three_mf_lib3mf_test.cpp)
+  // checks them independently.
   const std::string bytes = io::three_mf_bytes(sample_parts(), sample_metadata());
   const io::detail::ZipReader zip(bytes, "x.3mf");
   const std::string types = zip.read("[Content_Types].xml");
