@@ -179,6 +179,23 @@ Measurement measure(const Recording& rec, const RecordingOptions& opt) {
     for (size_t i = 0; i < rec.channels.size(); ++i) candidates.push_back(i);
   }
   m.axis_auto = candidates.size() > 1;
+  // A channel that never changes recorded no vibration.
+  candidates.erase(std::remove_if(candidates.begin(), candidates.end(),
+                                  [&](size_t c) {
+                                    const auto& v = rec.channels[c].accel_m_s2;
+                                    auto [lo_it, hi_it] = std::minmax_element(v.begin(), v.end());
+                                    return !(*hi_it > *lo_it);
+                                  }),
+                   candidates.end());
+  if (candidates.empty())
+    throw InputError(fmt::format("{}: the acceleration {} constant: no vibration was recorded; expected a varying "
+                                 "signal",
+                                 src, opt.axis.empty() && rec.channels.size() > 1 ? "columns are all" : "column is"));
+  if (opt.nominal_rpm && duration * nominal_hz * (1 + dev) < kHardMinRevolutions)
+    throw InputError(fmt::format("{}: too short to measure: {:.3f} s is {:.1f} revolutions at the nominal {:.0f} rpm; "
+                                 "expected at least {:.0f} ({} recommended)",
+                                 src, duration, duration * nominal_hz, *opt.nominal_rpm, kHardMinRevolutions,
+                                 opt.min_revolutions));
   std::vector<Spectrum> spectra(rec.channels.size());
   for (size_t c : candidates)
     spectra[c] = amplitude_spectrum(rec.time_s, rec.channels[c].accel_m_s2, rec.evenly_sampled);
@@ -264,6 +281,10 @@ Measurement measure(const Recording& rec, const RecordingOptions& opt) {
       hi = nominal_hz * (1 + dev);
       hi = std::min(hi, f_max);
     }
+    if (lo >= hi)
+      throw InputError(fmt::format("{}: too short to find the speed: {:.3f} s gives a frequency resolution of {:.2f} "
+                                   "Hz, coarser than the band searched; expected a longer recording",
+                                   src, duration, bin));
     // Local maxima in [a, b] that are not side lobes of a much larger neighbour.
     auto peaks_in = [&](double a, double b) {
       std::vector<size_t> out;
@@ -409,7 +430,7 @@ Measurement measure(const Recording& rec, const RecordingOptions& opt) {
                                              f1, mf));
           else
             r.warnings.push_back(fmt::format("1\u00d7 ({:.2f} Hz) lies within {:.2f} Hz of the {:.0f} Hz mains line: "
-                                             "this recording is too short to tell them apart (needs about {:.0f} s); "
+                                             "this recording is too short to tell them apart (needs about {:.2g} s); "
                                              "mains interference may be in the 1\u00d7 figure",
                                              f1, sep, mf, 2.0 / sep));
         }
@@ -553,7 +574,8 @@ Measurement measure(const Recording& rec, const RecordingOptions& opt) {
     // Signal-to-noise at 1×: against the median spectrum floor from 0.5× to 1.5×, lines left out.
     std::vector<double> excluded = order_hz;
     excluded.insert(excluded.end(), mains_candidates.begin(), mains_candidates.end());
-    const double fl = noise_floor(sp, 0.5 * f1, 1.5 * f1, excluded, 4 * bin + 0.03 * f1);
+    double fl = noise_floor(sp, 0.5 * f1, 1.5 * f1, excluded, 4 * bin + 0.03 * f1);
+    if (fl <= 0) fl = noise_floor(sp, bin, sp.frequency_hz(sp.amplitude.size() - 1), {}, 0);  // too few bins near 1×
     r.snr_db = fl > 0 && r.amplitude_m_s2 > 0 ? std::min(kSnrCapDb, 20 * std::log10(r.amplitude_m_s2 / fl))
                                               : (r.amplitude_m_s2 > 0 ? kSnrCapDb : -kSnrCapDb);
     return r;

@@ -41,7 +41,7 @@ TEST_CASE("spectrum: a sinusoid shows its amplitude at its frequency", "[signal]
   for (size_t i = 1; i < s.amplitude.size(); ++i)
     if (s.amplitude[i] > s.amplitude[peak]) peak = i;
   CHECK(interpolate_peak_hz(s, peak) == Approx(57.3).margin(0.1 * s.bin_hz));
-  CHECK(s.amplitude[peak] == Approx(0.7).epsilon(0.16));  // Hann scalloping loss is at most 1.42 dB
+  CHECK(s.amplitude[peak] == Approx(0.7).epsilon(0.16));  // Hann scalloping loss is at most 1.42 dB (from memory)
   CHECK(s.amplitude[0] < 1e-3);                           // the mean is removed
   CHECK(noise_floor(s, 10, 100, {57.3}, 2) < 1e-3);
 }
