@@ -196,8 +196,9 @@ solve::Run read_run(TableReader& t, int index) {
   auto phase = t.optional_numbers("phase_deg", kAngle);
   run.recording = t.optional_string("recording", "a CSV or WAV file, relative to the job file").value_or("");
   run.axis = t.optional_string("axis", "the recording column to use").value_or("");
-  if (!amp && run.recording.empty())
-    t.missing("amplitude", "the vibration amplitude of this run (or a recording)");
+  run.settle_angle_deg = t.optional_number("settle_angle_deg", kAngle);
+  if (!amp && run.recording.empty() && !run.settle_angle_deg)
+    t.missing("amplitude", "the vibration amplitude of this run (or a recording, or settle_angle_deg on a static stand)");
   if (amp && !run.recording.empty())
     t.fail("recording", "either typed amplitude/phase_deg or a recording, not both");
   if (amp) run.amplitude = *amp;
@@ -231,7 +232,6 @@ solve::Run read_run(TableReader& t, int index) {
     if (s.values.empty()) t.fail("setting", "a table of setting values, e.g. { spindle_x_mm = 1.8, angle_deg = 212 }");
     run.setting = s;
   }
-  run.settle_angle_deg = t.optional_number("settle_angle_deg", kAngle);
   run.index_deg = t.optional_number("index_deg", kAngle);
   t.finish();
   return run;

@@ -121,6 +121,7 @@ std::string report_json(const DesignRun& run, const std::vector<std::string>& ou
   fx["stack_height_mm"] = io::json_number(d.stack_height_mm, "stack height");
   fx["mount"] = job.fixture.mount;
   fx["reason"] = d.reason;
+  fx["sized_for_gmm"] = io::json_number(d.sized_for_gmm, "sized for");
   Json parts = Json::array();
   for (const auto& p : d.parts) {
     Json pj;

@@ -85,6 +85,14 @@ Json solved_json(const Job& job, const SolvedJob& solved) {
     pred.push_back({{"sensor", p.sensor}, {"amplitude", json_number(p.amplitude, "predicted")},
                     {"phase_deg", json_number(p.phase_deg, "predicted")}, {"severity", severity_json(p.severity)}});
   j["predicted"] = pred;
+  if (!r.settles.empty()) {
+    Json settles = Json::array();
+    for (const auto& f : r.settles)
+      settles.push_back({{"run", f.run}, {"settle_deg", json_number(f.settle_deg, "settle")},
+                         {"fitted_deg", json_number(f.fitted_deg, "settle")},
+                         {"residual_deg", json_number(f.residual_deg, "settle")}});
+    j["settles"] = settles;
+  }
   if (r.condition_number) j["condition_number"] = json_number(*r.condition_number, "condition");
   if (r.static_couple)
     j["static_couple"] = {{"static", polar_json(r.static_couple->static_gmm, "unbalance_gmm")},
@@ -129,8 +137,12 @@ std::string solved_text(const Job& job, const SolvedJob& solved) {
   if (r.heavy_spot_deg) s += fmt::format("  heavy spot at {:.1f}°\n", *r.heavy_spot_deg);
   if (r.consistency) s += fmt::format("  four-run consistency {:.3f} (1 = consistent)\n", *r.consistency);
   if (r.condition_number) s += fmt::format("  influence matrix condition number {:.1f}\n", *r.condition_number);
-  s += fmt::format("  residual RMS {:.3g} {} over {} reading{} ({} redundant)\n", r.residual_rms,
-                   job.readings->units, r.readings.size(), r.readings.size() == 1 ? "" : "s", r.redundancy);
+  if (!r.readings.empty())
+    s += fmt::format("  residual RMS {:.3g} {} over {} reading{} ({} redundant)\n", r.residual_rms,
+                     job.readings->units, r.readings.size(), r.readings.size() == 1 ? "" : "s", r.redundancy);
+  for (const auto& f : r.settles)
+    s += fmt::format("  run \"{}\": settled at {:.1f}°, the fit says {:.1f}° ({:+.1f}°)\n", f.run, f.settle_deg,
+                     f.fitted_deg, f.residual_deg);
   for (const auto& p : r.predicted)
     s += fmt::format("  predicted after correction, sensor {}: {:.3g} {}{}\n", p.sensor, p.amplitude,
                      job.readings->units,
