@@ -52,6 +52,59 @@ AdmeshReport admesh(const fs::path& stl) {
   return r;
 }
 
+// disc-pair samples: each disc's first moment from its STL as written (read back by the
+// independent reader) plus the inserts the report lists, turned so that its heavy mark (+x)
+// points at its setting, summed: the pair must give the correction within 0.5 % and 0.5°.
+// The job's angle sense decides which way a part-frame angle turns in rotor angles; it is read
+// from the sample itself (rotation and angles keys).
+void check_disc_pair_sample(const fs::path& job, const json& rep, const fs::path& out) {
+  std::string text = slurp(job);
+  std::smatch m;
+  REQUIRE(std::regex_search(text, m, std::regex(R"re(rotation\s*=\s*"(cw|ccw)")re")));
+  bool ccw_rotation = m[1] == "ccw";
+  bool with_rotation = rep["correction"]["angles"] == "with-rotation";
+  double sense = ccw_rotation == with_rotation ? 1.0 : -1.0;  // +1: angles count ccw seen from +z
+  const double pi = 3.14159265358979323846;
+  double need = rep["correction"]["unbalance_gmm"].get<double>();
+  double angle = rep["correction"]["angle_deg"].get<double>();
+  REQUIRE(rep["fixture"]["parts"].size() == 2);
+  double x = 0, y = 0, u_each[2] = {0, 0};
+  const char* keys[] = {"disc_a_deg", "disc_b_deg"};
+  for (int i = 0; i < 2; ++i) {
+    const json& part = rep["fixture"]["parts"][i];
+    fs::path stl = out / part["file"].get<std::string>();
+    REQUIRE(fs::exists(stl));
+    StlMass sm = stl_mass(slurp(stl));
+    double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
+    CHECK(mass == Approx(part["plastic_mass_g"].get<double>()).epsilon(1e-4));
+    double mx = mass * sm.centroid_mm[0], my = mass * sm.centroid_mm[1], total = mass;
+    for (const auto& ins : part["inserts"]) {
+      double g = ins["mass_g"].get<double>();
+      mx += g * ins["position_mm"][0].get<double>();
+      my += g * ins["position_mm"][1].get<double>();
+      total += g;
+    }
+    CHECK(total == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+    if (!part["inserts"].empty()) {
+      // Closed pockets: the print pauses at a layer above the floor.
+      CHECK(part["pause_layer"].get<int>() > 1);
+    }
+    u_each[i] = std::hypot(mx, my);
+    double dir = (rep["setting"][keys[i]].get<double>() + sense * std::atan2(my, mx) * 180 / pi) * pi / 180;
+    x += u_each[i] * std::cos(dir);
+    y += u_each[i] * std::sin(dir);
+    AdmeshReport a = admesh(stl);
+    REQUIRE(a.ran);
+    CHECK(a.disconnected == 0);
+    CHECK(a.backwards == 0);
+  }
+  CHECK(u_each[0] == Approx(u_each[1]).epsilon(1e-3));
+  CHECK(std::hypot(x, y) == Approx(need).epsilon(0.005));
+  double got = std::atan2(y, x) * 180 / pi;
+  CHECK(std::fabs(std::remainder(got - angle, 360.0)) < 0.5);
+  CHECK(rep["fixture"]["range_gmm"][1].get<double>() >= need);
+}
+
 }  // namespace
 
 TEST_CASE("samples: every sample designs, writes its outputs and reproduces its correction", "[cli][samples]") {
@@ -68,6 +121,10 @@ TEST_CASE("samples: every sample designs, writes its outputs and reproduces its 
     double need = rep["correction"]["unbalance_gmm"].get<double>();
     double angle = rep["correction"]["angle_deg"].get<double>();
     double resolution = rep["fixture"]["resolution_gmm"].get<double>();
+    if (rep["fixture"]["family"] == "disc-pair") {
+      check_disc_pair_sample(job, rep, out);
+      continue;
+    }
     REQUIRE(rep["fixture"]["family"] == "slide-disc");
     for (const auto& part : rep["fixture"]["parts"]) {
       fs::path stl = out / part["file"].get<std::string>();
