@@ -88,9 +88,9 @@ toml::table load_with_includes(const std::string& text, const std::string& sourc
   if (std::find(chain.begin(), chain.end(), canon) != chain.end())
     root.fail("include", "a file that does not include itself (include loop)");
   std::ifstream probe(p);
-  if (!probe)
-    throw FileError(fmt::format("{}: include = \"{}\": cannot read {}", node_location(*inc, source),
-                                *name, p.string()));
+  if (!probe || !fs::is_regular_file(p))
+    throw FileError(fmt::format("{}: include = \"{}\": cannot read {}{}", node_location(*inc, source),
+                                *name, p.string(), fs::is_directory(p) ? " (a folder, expected a TOML file)" : ""));
   chain.push_back(canon);
   included.push_back(p.string());
   toml::table merged =

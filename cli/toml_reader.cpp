@@ -74,6 +74,17 @@ void TableReader::fail(const std::string& key, const std::string& expected) cons
 }
 
 void TableReader::missing(const std::string& key, const std::string& expected) const {
+  // A misspelt required key shows up as missing: name the misspelling instead.
+  for (auto&& [k, v] : table_) {
+    std::string other(k.str());
+    if (read_.count(other) || other == key) continue;
+    if (edit_distance(other, key) <= std::max<std::size_t>(2, key.size() / 3)) {
+      std::string loc = k.source().begin.line != 0
+                            ? fmt::format("{}:{}", k.source().path ? *k.source().path : file_, k.source().begin.line)
+                            : node_location(v, file_);
+      throw InputError(fmt::format("{}: unknown key \"{}\": did you mean \"{}\"?", loc, dotted(other), dotted(key)));
+    }
+  }
   std::string where = path_.empty() ? std::string("the job") : "[" + path_ + "]";
   throw InputError(fmt::format("{}: {} has no \"{}\": expected {}", table_location(), where, key,
                                expected));

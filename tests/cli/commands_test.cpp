@@ -6,6 +6,7 @@
 
 #include <cmath>
 #include <filesystem>
+#include <complex>
 #include <cstring>
 #include <fstream>
 
@@ -162,4 +163,60 @@ TEST_CASE("check: our meshes pass, broken ones are named, a job's checks run wit
   CHECK(j.exit_code == 0);
   CHECK(j.out.find("nothing written") != std::string::npos);
   CHECK_FALSE(fs::exists(sample("out-grinder-150")));
+}
+
+namespace {
+// A recording of our own: 1× acceleration A g at phase lag φ from a once-per-revolution pulse
+// (column "ref", rising edge at rotation angle 0), plus a little 2× and a fixed pseudo-random
+// noise, sampled at 4 kHz for 8 s.
+void write_recording(const fs::path& path, double rpm, double amplitude_g, double lag_deg) {
+  const double f = rpm / 60, fs_hz = 4000, pi = 3.14159265358979323846;
+  std::ofstream out(path);
+  out << "time_s,accel_z_g,ref\n";
+  unsigned state = 12345;
+  for (int i = 0; i < 8 * 4000; ++i) {
+    double t = i / fs_hz, turn = f * t - std::floor(f * t);
+    state = state * 1103515245u + 12345u;
+    double noise = 0.002 * ((state >> 8) % 2001 / 1000.0 - 1.0);
+    double a = amplitude_g * std::cos(2 * pi * f * t - lag_deg * pi / 180) +
+               0.2 * amplitude_g * std::cos(4 * pi * f * t) + noise;
+    double ref = turn < 0.1 ? 1.0 : 0.0;
+    out << t << "," << a << "," << ref << "\n";
+  }
+}
+}  // namespace
+
+TEST_CASE("solve: runs given as recordings solve like the same readings typed in", "[cli][solve][recording]") {
+  fs::path dir = scratch_dir("recordings");
+  // Model of our own: α = 0.0004 g per g·mm at 35° lag, 55 g·mm at 140° on the rotor, trial
+  // 36 g·mm at 0°: readings 0.022 g at 175° and |α(U0 + T)| at its angle.
+  const double pi = 3.14159265358979323846;
+  auto polar = [&](double m, double d) { return std::complex<double>(m * std::cos(d * pi / 180), m * std::sin(d * pi / 180)); };
+  std::complex<double> a = polar(0.0004, 35), v0 = a * polar(55, 140), v1 = a * (polar(55, 140) + polar(36, 0));
+  auto deg = [&](std::complex<double> z) { double d = std::arg(z) * 180 / pi; return d < 0 ? d + 360 : d; };
+  write_recording(dir / "run-0.csv", 3450, std::abs(v0), deg(v0));
+  write_recording(dir / "run-1.csv", 3450, std::abs(v1), deg(v1));
+  std::string head = "[machine]\nspeed_rpm = 3450\nspindle_diameter_mm = 15.875\nfree_thread_mm = 20\n"
+                     "max_fixture_diameter_mm = 90\n[rotor]\ndiameter_mm = 150\nmass_kg = 0.72\nmax_speed_rpm = 4140\n"
+                     "[readings]\nmethod = \"trial\"\nunits = \"g-pk\"\ncorrection_radius_mm = 60\n";
+  std::ofstream(dir / "recorded.toml") << head
+      << "[[readings.run]]\nname = \"as found\"\nrecording = \"run-0.csv\"\n"
+      << "[[readings.run]]\nname = \"trial\"\nrecording = \"run-1.csv\"\n"
+      << "trial = [{ mass_g = 0.6, radius_mm = 60, angle_deg = 0 }]\n";
+  std::ofstream(dir / "typed.toml") << head
+      << "[[readings.run]]\nname = \"as found\"\namplitude = " << std::abs(v0) << "\nphase_deg = " << deg(v0) << "\n"
+      << "[[readings.run]]\nname = \"trial\"\namplitude = " << std::abs(v1) << "\nphase_deg = " << deg(v1) << "\n"
+      << "trial = [{ mass_g = 0.6, radius_mm = 60, angle_deg = 0 }]\n";
+  json rec = solve_json(dir / "recorded.toml");
+  json typed = solve_json(dir / "typed.toml");
+  double u_rec = rec["corrections"][0]["unbalance_gmm"].get<double>();
+  double u_typed = typed["corrections"][0]["unbalance_gmm"].get<double>();
+  CHECK(u_typed == Approx(55).epsilon(1e-3));
+  CHECK(u_rec == Approx(u_typed).epsilon(0.01));
+  CHECK(std::fabs(rec["corrections"][0]["angle_deg"].get<double>() -
+                  typed["corrections"][0]["angle_deg"].get<double>()) < 1.0);
+  // The design runs from the recordings too.
+  auto r = run_cli("design " + shell_quote((dir / "recorded.toml").string()) + " --out " + shell_quote((dir / "out").string()));
+  INFO(r.err);
+  CHECK(r.exit_code == 0);
 }
