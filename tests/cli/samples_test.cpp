@@ -7,6 +7,7 @@
 
 #include <cmath>
 #include <filesystem>
+#include <fstream>
 #include <regex>
 
 #include "tests/support/run_cli.hpp"
@@ -105,6 +106,94 @@ void check_disc_pair_sample(const fs::path& job, const json& rep, const fs::path
   CHECK(rep["fixture"]["range_gmm"][1].get<double>() >= need);
 }
 
+// The sense in which a sample's angles count, seen from the fixture side (+z of the part frame):
+// +1 counter-clockwise, −1 clockwise; read from the sample itself (rotation and angles keys).
+double angle_sense(const fs::path& job, const json& rep) {
+  std::string text = slurp(job);
+  std::smatch m;
+  REQUIRE(std::regex_search(text, m, std::regex(R"re(rotation\s*=\s*"(cw|ccw)")re")));
+  bool ccw_rotation = m[1] == "ccw";
+  bool with_rotation = rep["correction"]["angles"] == "with-rotation";
+  return ccw_rotation == with_rotation ? 1.0 : -1.0;
+}
+
+// clamp-weights samples: each weight's first moment from its STL as written (read back by the
+// independent reader) plus the screw, nut and inserts the report lists, turned so that its +x
+// axis points at the angle the setting gives it, summed over the placed weights: the sum must
+// give the correction within 0.5 % and 0.5°.
+void check_clamp_weights_sample(const fs::path& job, const json& rep, const fs::path& out) {
+  const double pi = 3.14159265358979323846;
+  const double sense = angle_sense(job, rep);
+  double need = rep["correction"]["unbalance_gmm"].get<double>();
+  double angle = rep["correction"]["angle_deg"].get<double>();
+  REQUIRE(!rep["setting"]["weights"].empty());
+  double x = 0, y = 0;
+  for (const auto& w : rep["setting"]["weights"]) {
+    const json* found = nullptr;
+    for (const auto& part : rep["fixture"]["parts"])
+      if (part["name"] == w["part"]) found = &part;
+    REQUIRE(found);
+    const json& part = *found;
+    fs::path stl = out / part["file"].get<std::string>();
+    REQUIRE(fs::exists(stl));
+    StlMass sm = stl_mass(slurp(stl));
+    double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
+    CHECK(mass == Approx(part["plastic_mass_g"].get<double>()).epsilon(1e-4));
+    double mx = mass * sm.centroid_mm[0], my = mass * sm.centroid_mm[1], total = mass;
+    for (const auto& ins : part["inserts"]) {
+      double g = ins["mass_g"].get<double>();
+      mx += g * ins["position_mm"][0].get<double>();
+      my += g * ins["position_mm"][1].get<double>();
+      total += g;
+    }
+    CHECK(total == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+    // The weight sits over the rim's edge on +x of its own frame.
+    CHECK(sm.centroid_mm[0] > 0);
+    double u = std::hypot(mx, my);
+    double dir = (w["angle_deg"].get<double>() + sense * std::atan2(my, mx) * 180 / pi) * pi / 180;
+    x += u * std::cos(dir);
+    y += u * std::sin(dir);
+    AdmeshReport a = admesh(stl);
+    REQUIRE(a.ran);
+    CHECK(a.disconnected == 0);
+    CHECK(a.backwards == 0);
+    CHECK(a.volume == Approx(sm.volume_mm3).epsilon(1e-5));  // admesh sums in float
+  }
+  CHECK(std::hypot(x, y) == Approx(need).epsilon(0.005));
+  double got = std::atan2(y, x) * 180 / pi;
+  CHECK(std::fabs(std::remainder(got - angle, 360.0)) < 0.5);
+  CHECK(rep["fixture"]["range_gmm"][1].get<double>() >= need);
+  CHECK(rep["fixture"]["stack_height_mm"].get<double>() == 0);
+  CHECK(rep["fixture"]["swept_diameter_mm"].get<double>() > 0);
+}
+
+// bore-sleeve samples: no correction is made, only a fit. The sleeve as written is a round tube
+// on the axis (its own unbalance nil), as long as the report says, with the diameters it gives.
+void check_bore_sleeve_sample(const json& rep, const fs::path& out) {
+  REQUIRE(rep["fixture"]["parts"].size() == 1);
+  const json& part = rep["fixture"]["parts"][0];
+  fs::path stl = out / part["file"].get<std::string>();
+  REQUIRE(fs::exists(stl));
+  StlMass sm = stl_mass(slurp(stl));
+  double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
+  CHECK(mass == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+  CHECK(mass * std::hypot(sm.centroid_mm[0], sm.centroid_mm[1]) < 1e-3);  // g·mm
+  const double pi = 3.14159265358979323846;
+  double od = rep["setting"]["outer_diameter_mm"].get<double>();
+  double id = rep["setting"]["inner_diameter_mm"].get<double>();
+  double len = rep["setting"]["length_mm"].get<double>();
+  // The annulus π/4·(D² − d²)·L: the mesh's polygons keep each circle's exact area.
+  CHECK(sm.volume_mm3 == Approx(pi / 4 * (od * od - id * id) * len).epsilon(1e-5));
+  CHECK(sm.centroid_mm[2] == Approx(len / 2).epsilon(1e-5));
+  CHECK(rep["fixture"]["range_gmm"][0].get<double>() == 0);
+  CHECK(rep["fixture"]["range_gmm"][1].get<double>() == 0);
+  CHECK(rep["setting"]["old_slop_gmm"].get<double>() > rep["setting"]["residual_gmm"].get<double>());
+  AdmeshReport a = admesh(stl);
+  REQUIRE(a.ran);
+  CHECK(a.disconnected == 0);
+  CHECK(a.backwards == 0);
+}
+
 }  // namespace
 
 TEST_CASE("samples: every sample designs, writes its outputs and reproduces its correction", "[cli][samples]") {
@@ -123,6 +212,14 @@ TEST_CASE("samples: every sample designs, writes its outputs and reproduces its 
     double resolution = rep["fixture"]["resolution_gmm"].get<double>();
     if (rep["fixture"]["family"] == "disc-pair") {
       check_disc_pair_sample(job, rep, out);
+      continue;
+    }
+    if (rep["fixture"]["family"] == "clamp-weights") {
+      check_clamp_weights_sample(job, rep, out);
+      continue;
+    }
+    if (rep["fixture"]["family"] == "bore-sleeve") {
+      check_bore_sleeve_sample(rep, out);
       continue;
     }
     REQUIRE(rep["fixture"]["family"] == "slide-disc");
@@ -193,4 +290,24 @@ TEST_CASE("cli: init writes a template that designs as it is", "[cli]") {
   INFO(r.err);
   CHECK(r.exit_code == 0);
   CHECK(run_cli("materials").exit_code == 0);
+}
+
+TEST_CASE("cli: a rim too thin for a clamp weight and a bore too small for a sleeve exit 1", "[cli][samples]") {
+  fs::path dir = scratch_dir("fixb-refusals");
+  std::string clamp = slurp(fs::path(TRIMWRIGHT_SOURCE_DIR) / "samples" / "pulley-clamp-weights.toml");
+  clamp = std::regex_replace(clamp, std::regex(R"(rim_thickness_mm = 5)"), "rim_thickness_mm = 0.5");
+  std::ofstream(dir / "thin-rim.toml") << clamp;
+  auto thin = run_cli("design " + shell_quote((dir / "thin-rim.toml").string()) + " --out " +
+                      shell_quote((dir / "o1").string()));
+  CHECK(thin.exit_code == 1);
+  CHECK(thin.err.find("rim_thickness_mm = 0.5") != std::string::npos);
+  CHECK(!fs::exists(dir / "o1"));
+  std::string sleeve = slurp(fs::path(TRIMWRIGHT_SOURCE_DIR) / "samples" / "loose-bore-sleeve.toml");
+  sleeve = std::regex_replace(sleeve, std::regex(R"(bore_mm = 15.875)"), "bore_mm = 13.5");
+  std::ofstream(dir / "tight-bore.toml") << sleeve;
+  auto tight = run_cli("design " + shell_quote((dir / "tight-bore.toml").string()) + " --out " +
+                       shell_quote((dir / "o2").string()));
+  CHECK(tight.exit_code == 1);
+  CHECK(tight.err.find("bore_mm = 13.5") != std::string::npos);
+  CHECK(!fs::exists(dir / "o2"));
 }
