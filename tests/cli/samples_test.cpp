@@ -311,3 +311,62 @@ TEST_CASE("cli: a rim too thin for a clamp weight and a bore too small for a sle
   CHECK(tight.err.find("bore_mm = 13.5") != std::string::npos);
   CHECK(!fs::exists(dir / "o2"));
 }
+
+namespace {
+
+// The disc-pair wheel sample with some lines replaced, written to a scratch job file.
+fs::path disc_pair_variant(const std::string& name, const std::vector<std::pair<std::string, std::string>>& edits) {
+  std::string text = slurp(fs::path(TRIMWRIGHT_SOURCE_DIR) / "samples" / "disc-pair-wheel.toml");
+  for (const auto& [from, to] : edits) {
+    auto at = text.find(from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, from.size(), to);
+  }
+  fs::path job = scratch_dir("disc-pair-" + name) / "job.toml";
+  std::ofstream(job) << text;
+  return job;
+}
+
+}  // namespace
+
+TEST_CASE("inserts: the command lists the catalogue, also as JSON", "[cli][inserts]") {
+  auto r = run_cli("inserts");
+  REQUIRE(r.exit_code == 0);
+  for (const char* name : {"ball-6", "nut-M4", "washer-M5", "weighed:"}) CHECK(r.out.find(name) != std::string::npos);
+  auto j = run_cli("inserts --json");
+  REQUIRE(j.exit_code == 0);
+  json list = json::parse(j.out);
+  REQUIRE(list.size() == 15);
+  for (const auto& k : list)
+    if (k["name"] == "ball-6") CHECK(k["mass_g"].get<double>() == Approx(0.8856).epsilon(0.001));  // references.md, steel balls
+}
+
+TEST_CASE("disc-pair: the command line refuses what cannot be met, with what would be needed", "[cli][disc-pair]") {
+  // No thread left for two discs, a washer and a nut.
+  auto thin = run_cli("design " + shell_quote(disc_pair_variant("thread", {{"free_thread_mm = 26", "free_thread_mm = 12"}}).string()) +
+                      " --out " + shell_quote((scratch_dir("disc-pair-thread-out") / "o").string()));
+  CHECK(thin.exit_code == 1);
+  CHECK(thin.err.find("thread") != std::string::npos);
+  CHECK(thin.err.find("disc-pair") != std::string::npos);
+  // A correction beyond every family: auto says what each one would need.
+  auto far = run_cli("design " + shell_quote(disc_pair_variant("far", {{"unbalance_gmm = 60", "unbalance_gmm = 60000"},
+                                                                        {"family = \"disc-pair\"", "family = \"auto\""}}).string()) +
+                     " --out " + shell_quote((scratch_dir("disc-pair-far-out") / "o").string()));
+  CHECK(far.exit_code == 1);
+  CHECK(far.err.find("auto") != std::string::npos);
+  CHECK(far.err.find("disc-pair: rejected") != std::string::npos);
+  CHECK(far.err.find("needed") != std::string::npos);
+  // An unknown insert is bad input, and the message lists the catalogue.
+  auto bad = run_cli("design " + shell_quote(disc_pair_variant("bad-insert", {{"material = \"PETG\"", "material = \"PETG\"\ninserts = \"nut-M7\""}}).string()) +
+                     " --out " + shell_quote((scratch_dir("disc-pair-bad-out") / "o").string()));
+  CHECK(bad.exit_code == 2);
+  CHECK(bad.err.find("nut-M7") != std::string::npos);
+  CHECK(bad.err.find("washer-M8") != std::string::npos);
+  // --family on the command line overrides the job's family.
+  fs::path auto_out = scratch_dir("disc-pair-auto") / "o";
+  auto over = run_cli("design " + shell_quote((fs::path(TRIMWRIGHT_SOURCE_DIR) / "samples" / "disc-pair-wheel.toml").string()) +
+                      " --family auto --out " + shell_quote(auto_out.string()));
+  REQUIRE(over.exit_code == 0);
+  json rep = json::parse(slurp(auto_out / "report.json"));
+  CHECK(rep["fixture"]["reason"].get<std::string>().rfind("auto chose", 0) == 0);
+}
