@@ -15,9 +15,11 @@ namespace trimwright::cli {
 namespace {
 
 /// Runs a loaded job: design, write (unless a blocking check fails), print. Returns the exit code.
-int design_and_write(const Job& job, const std::string& out_dir, const std::string& family, bool json) {
+int design_and_write(const Job& job, const std::string& out_dir, const std::string& family, bool json,
+                     int plane = 1) {
   DesignOptions options;
   if (!family.empty()) options.family = family;
+  options.plane = plane;
   DesignRun run = run_design(job, options);
   std::vector<std::string> blocking = check::blocking_failures(run.checks);
   std::vector<std::string> outputs;
@@ -50,7 +52,7 @@ std::string default_out_dir(const Job& job, const std::string& job_path) {
 int run_design_command(const DesignCommandOptions& o) {
   Job job = load_job(o.job_path);
   std::string out = o.out_dir.empty() ? default_out_dir(job, o.job_path) : o.out_dir;
-  return design_and_write(job, out, o.family, o.json);
+  return design_and_write(job, out, o.family, o.json, o.plane);
 }
 
 void add_design_command(CLI::App& app, int& exit_code) {
@@ -59,6 +61,9 @@ void add_design_command(CLI::App& app, int& exit_code) {
   sub->add_option("job", opts->job_path, "Job file (TOML)")->required();
   sub->add_option("--out", opts->out_dir, "Output folder (default: the job's [output] dir)");
   sub->add_option("--family", opts->family, "Fixture family, overriding the job's [fixture] family");
+  sub->add_option("--plane", opts->plane, "Correction plane to build for, with two-plane readings")
+      ->check(CLI::Range(1, 2))
+      ->capture_default_str();
   sub->add_flag("--json", opts->json, "Print the report (JSON) instead of the summary");
   sub->callback([opts, &exit_code] { exit_code = run_design_command(*opts); });
 }

@@ -16,6 +16,7 @@ struct DesignCommandOptions {
   std::string out_dir;      ///< empty: the job's [output] dir, relative to the job file
   std::string family;       ///< empty: the job's [fixture] family
   bool json = false;        ///< the report on stdout instead of the summary
+  int plane = 1;            ///< which correction plane to build for (two-plane readings)
 };
 
 /// Register `design`.
