@@ -220,3 +220,43 @@ TEST_CASE("solve: runs given as recordings solve like the same readings typed in
   INFO(r.err);
   CHECK(r.exit_code == 0);
 }
+
+TEST_CASE("refusals: failed checks stop design with exit 1; accepted ones let it through, never speed", "[cli][checks]") {
+  fs::path dir = fs::path(TRIMWRIGHT_SOURCE_DIR) / "tests" / "refuse";
+  int seen = 0;
+  for (const auto& e : fs::directory_iterator(dir)) {
+    if (e.path().extension() != ".toml") continue;
+    ++seen;
+    std::string text = slurp(e.path());
+    std::string names = text.substr(10, text.find('\n') - 10);  // "# refuse: a, b"
+    bool acceptable = text.find("# acceptable: yes") != std::string::npos;
+    INFO(e.path().filename().string());
+    fs::path out = scratch_dir("refuse-" + e.path().stem().string()) / "out";
+    auto r = run_cli("design " + shell_quote(e.path().string()) + " --out " + shell_quote(out.string()));
+    CHECK(r.exit_code == 1);
+    CHECK(r.err.find("failed check") != std::string::npos);
+    CHECK(r.err.find(names) != std::string::npos);
+    CHECK_FALSE(fs::exists(out));
+    // The same job accepting those checks by name.
+    std::string list;
+    for (std::size_t start = 0; start < names.size();) {
+      std::size_t comma = names.find(", ", start);
+      std::string one = names.substr(start, comma == std::string::npos ? std::string::npos : comma - start);
+      list += (list.empty() ? "\"" : ", \"") + one + "\"";
+      start = comma == std::string::npos ? names.size() : comma + 2;
+    }
+    fs::path accepted = out.parent_path() / "accepted.toml";
+    std::ofstream(accepted) << text << "\n[checks]\naccept = [" << list << "]\n";
+    auto a = run_cli("design " + shell_quote(accepted.string()) + " --out " + shell_quote(out.string()));
+    INFO(a.err);
+    CHECK(a.exit_code == (acceptable ? 0 : 1));
+    if (acceptable) {
+      json rep = json::parse(slurp(out / "report.json"));
+      bool marked = false;
+      for (const auto& c : rep["checks"]) marked = marked || (c["ok"] == false && c["accepted"] == true);
+      CHECK(marked);  // accepted failures stay visible
+      CHECK(a.out.find("ACCEPTED") != std::string::npos);
+    }
+  }
+  CHECK(seen >= 4);
+}
