@@ -83,6 +83,9 @@ inline constexpr int kClampFrictionFaces = 2;
 inline constexpr double kModestTorque_nm = 5.0;
 /// Least torque the checks advise, N·m: below this a nut can work loose.
 inline constexpr double kMinAdvisedTorque_nm = 2.0;
+/// Least torque advised for a small screw in printed plastic (thread under 6 mm), N·m (our choice:
+/// snug by hand with a small key).
+inline constexpr double kMinAdvisedScrewTorque_nm = 0.2;
 /// Assumed flange temperature of bench grinders and buffers in service, °C.
 inline constexpr double kWarmMachineTemp_c = 60.0;
 /// Assumed flange temperature of other machines in service, °C.

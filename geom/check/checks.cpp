@@ -243,13 +243,18 @@ std::optional<CheckResult> check_insert_retention(const Design& d, const Context
 
 // ---- 4. clamp ----------------------------------------------------------------------------------
 
-/// Torque, N·m, rounded up to 0.5 N·m steps and no less than kMinAdvisedTorque_nm.
-double advised_torque_nm(double needed_nm) {
+/// Torque, N·m. For a spindle nut: rounded up to 0.5 N·m steps and no less than
+/// kMinAdvisedTorque_nm. For a small screw (under 6 mm, e.g. a clamp weight's M3 set screw in
+/// plastic) that floor would strip the plastic: rounded up to 0.1 N·m, no less than
+/// kMinAdvisedScrewTorque_nm.
+double advised_torque_nm(double needed_nm, double thread_mm) {
+  if (thread_mm < 6.0) return std::max(kMinAdvisedScrewTorque_nm, std::ceil(needed_nm / 0.1 - 1e-9) * 0.1);
   return std::max(kMinAdvisedTorque_nm, std::ceil(needed_nm / 0.5 - 1e-9) * 0.5);
 }
 
 std::optional<CheckResult> check_clamp(const Design& d, const Context& c) {
-  if (d.parts.empty()) return std::nullopt;
+  // A bore sleeve is held by the wheel's own flanges and adds no eccentric mass to clamp.
+  if (d.parts.empty() || d.family == "bore-sleeve") return std::nullopt;
   const double proof_rpm = c.speed_rpm * c.overspeed_factor;
   const bool weights = d.family == "clamp-weights";
   const double thread_mm = weights ? c.clamp_screw_diameter_mm.value_or(0) : c.spindle_diameter_mm;
@@ -286,7 +291,7 @@ std::optional<CheckResult> check_clamp(const Design& d, const Context& c) {
 
   const double needed_preload = kClampSafetyFactor * force / (mu * kClampFrictionFaces);
   const double needed_nm = nut_torque_nm(needed_preload, thread_mm, k);
-  const double advised = advised_torque_nm(needed_nm);
+  const double advised = advised_torque_nm(needed_nm, thread_mm);
   const double torque = c.nut_torque_nm ? *c.nut_torque_nm : std::min(advised, kModestTorque_nm);
   const double preload = nut_preload_n(torque, thread_mm, k);
   const double friction_n = mu * kClampFrictionFaces * preload;
