@@ -255,9 +255,14 @@ std::string summary_text(const DesignRun& run, const std::vector<std::string>& o
   if (run.tolerance)
     s += fmt::format("; {} permits {:.2f} g·mm", run.tolerance->grade, run.tolerance->permissible_gmm);
   s += "\n";
-  for (const auto& p : d.parts)
-    s += fmt::format("  part        {}: {:.2f} g{} of {}, {:.0f} mm³\n", p.name, p.mass_g,
-                     p.weighed_g ? " (weighed)" : "", run.job.material.name, p.props.volume_mm3);
+  for (const auto& p : d.parts) {
+    std::string what = p.inserts.empty()
+                           ? fmt::format("of {}", run.job.material.name)
+                           : fmt::format("({:.2f} g of {} and {} metal part{})", p.plastic_mass_g,
+                                         run.job.material.name, p.inserts.size(), p.inserts.size() == 1 ? "" : "s");
+    s += fmt::format("  part        {}: {:.2f} g{} {}, {:.0f} mm³ printed\n", p.name, p.mass_g,
+                     p.weighed_g ? " (weighed)" : "", what, p.props.volume_mm3);
+  }
   s += fmt::format("  fixture     {}: range {:.0f}–{:.0f} g·mm, {:.2f} g·mm per {}, sweeps Ø{:.1f} mm\n",
                    d.family, d.range_min_gmm, d.range_max_gmm, d.resolution_gmm, d.resolution_basis,
                    d.swept_diameter_mm);
