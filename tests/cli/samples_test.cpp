@@ -104,6 +104,12 @@ void check_disc_pair_sample(const fs::path& job, const json& rep, const fs::path
   double got = std::atan2(y, x) * 180 / pi;
   CHECK(std::fabs(std::remainder(got - angle, 360.0)) < 0.5);
   CHECK(rep["fixture"]["range_gmm"][1].get<double>() >= need);
+  if (job.stem() == "trim-disc-pair") {
+    // Its readings were made for a rotor of 50 g·mm at 70° (see the sample): the logged setting,
+    // read back from the printed pair, must lead to 50 g·mm at 250° (readings rounded to 4 digits).
+    CHECK(need == Approx(50).epsilon(0.001));
+    CHECK(std::fabs(angle - 250) < 0.05);
+  }
 }
 
 // The sense in which a sample's angles count, seen from the fixture side (+z of the part frame):
