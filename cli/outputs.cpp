@@ -58,7 +58,9 @@ io::ChartData chart_data(const DesignRun& run) {
                                    p.inserts.empty() ? "" : fmt::format(", {} inserts", p.inserts.size()))});
   c.resolution_gmm = d.resolution_gmm;
   c.resolution_note = "per " + d.resolution_basis;
-  c.reach.min_gmm = d.range_min_gmm;
+  // A range that starts within a hundredth of a g·mm of zero (two discs opposite) starts at zero
+  // for anyone setting it by hand.
+  c.reach.min_gmm = d.range_min_gmm < 0.01 ? 0.0 : d.range_min_gmm;
   c.reach.max_gmm = d.range_max_gmm;
   c.steps = d.steps;
   c.table.title = "Settings across the range";
@@ -143,6 +145,7 @@ std::string report_json(const DesignRun& run, const std::vector<std::string>& ou
     if (p.shape.pause_height_mm > 0) {
       pj["pause_at_mm"] = io::json_number(p.shape.pause_height_mm, "pause height");
       pj["pause_layer"] = static_cast<int>(std::lround(p.shape.pause_height_mm / job.print.layer_mm)) + 1;
+      pj["pocket_cover_mm"] = io::json_number(p.shape.pocket_cover_mm, "pocket cover");
     }
     parts.push_back(pj);
   }
