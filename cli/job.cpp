@@ -332,6 +332,7 @@ OutputSpec read_output(TableReader& t) {
     o.formats = *f;
   }
   o.paper = t.choice("paper", {"a4", "letter"}, "a4");
+  if (t.has("png_dpi")) o.png_dpi = static_cast<int>(t.integer("png_dpi", 30, 600, "a PNG resolution in dots per inch"));
   t.finish();
   return o;
 }

@@ -83,6 +83,7 @@ struct OutputSpec {
   std::string dir = "out";
   std::vector<std::string> formats = {"stl", "3mf", "pdf", "svg", "png", "csv", "json"};
   std::string paper = "a4";
+  int png_dpi = 100;          ///< resolution of chart.png (a preview; the PDF is for printing)
 };
 
 /// A whole validated job.

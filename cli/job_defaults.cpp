@@ -137,6 +137,7 @@ accept = []                        # failed checks you knowingly accept (never "
 dir = "out"
 formats = ["stl", "3mf", "pdf", "svg", "png", "csv", "json"]
 paper = "a4"                       # a4 | letter
+png_dpi = 100                      # chart.png resolution (a preview; print the PDF)
 )";
 }
 

@@ -224,6 +224,7 @@ std::vector<std::string> write_outputs(const DesignRun& run, const std::string& 
     io::ChartOptions opt;
     opt.paper = io::parse_paper(run.job.output.paper);
     opt.tool_version = TRIMWRIGHT_VERSION;
+    opt.png_dpi = run.job.output.png_dpi;
     io::validate_chart(data, opt);
     auto chart_writer = [data, opt](int which) {
       return [data, opt, which](const std::string& path) {
