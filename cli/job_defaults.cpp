@@ -120,6 +120,11 @@ material = "PETG"                  # see `trimwright materials`, or add a [mater
 max_diameter_mm = 80               # default: machine.max_fixture_diameter_mm
 max_thickness_mm = 6
 margin = 1.5                       # reachable range / needed correction
+# inserts = "nut-M5"               # metal in closed pockets (see `trimwright inserts`)
+# rim_diameter_mm = 80             # clamp-weights: the rim they clip onto ...
+# rim_thickness_mm = 4             # ... and its thickness
+# positions_deg = [0, 60, 120]     # clamp-weights: only these places on the rim (a split)
+# sized_for_gmm = 75               # a fixture already printed: keep its parts (from report.json)
 
 [print]
 nozzle_mm = 0.4
