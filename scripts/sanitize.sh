@@ -12,8 +12,10 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 build=${TRIMWRIGHT_ASAN_DIR:-build-asan}
 jobs=${TRIMWRIGHT_JOBS:-2}
+# Not -Werror: with the sanitizers' instrumentation gcc 12 reports -Wmaybe-uninitialized inside
+# CGAL's headers (Epic_converter.h, a Circle_2 returned by value) that a plain build does not.
 cmake -S . -B "$build" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTRIMWRIGHT_SANITIZE=ON -DTRIMWRIGHT_TESTS=ON \
-  -DTRIMWRIGHT_WERROR=ON >/dev/null
+  -DTRIMWRIGHT_WERROR=OFF >/dev/null
 cmake --build "$build" -j"$jobs"
 export ASAN_OPTIONS="detect_leaks=1:halt_on_error=1:abort_on_error=0:strict_string_checks=1:detect_stack_use_after_return=1:check_initialization_order=1"
 export LSAN_OPTIONS="suppressions=$PWD/tests/lsan.supp:print_suppressions=0"
