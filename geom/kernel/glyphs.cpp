@@ -146,21 +146,6 @@ double signed_area(const Ring& r) {
   return a / 2;
 }
 
-bool inside_even_odd(const std::vector<Ring>& rings, Vec2 p) {
-  bool in = false;
-  for (const Ring& r : rings) {
-    const std::size_t n = r.points.size();
-    for (std::size_t i = 0, j = n - 1; i < n; j = i++) {
-      const Vec2& a = r.points[i];
-      const Vec2& b = r.points[j];
-      if ((a[1] > p[1]) != (b[1] > p[1]) &&
-          p[0] < (b[0] - a[0]) * (p[1] - a[1]) / (b[1] - a[1]) + a[0])
-        in = !in;
-    }
-  }
-  return in;
-}
-
 /// Thinnest stroke of one glyph's rings (font units): from sample points on every edge a ray goes
 /// into the ink along the edge normal; where it leaves the ink through an edge facing back
 /// (within 30°), the distance is a stroke width there. Rays that leave through a side wall

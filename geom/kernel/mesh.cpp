@@ -92,4 +92,22 @@ Mesh merged(const Mesh& a, const Mesh& b) {
   return out;
 }
 
+bool inside_ring(const Ring& ring, Vec2 p) {
+  bool in = false;
+  const std::size_t n = ring.points.size();
+  for (std::size_t i = 0, j = n - 1; i < n; j = i++) {
+    const Vec2& a = ring.points[i];
+    const Vec2& b = ring.points[j];
+    if ((a[1] > p[1]) != (b[1] > p[1]) && p[0] < (b[0] - a[0]) * (p[1] - a[1]) / (b[1] - a[1]) + a[0])
+      in = !in;
+  }
+  return in;
+}
+
+bool inside_even_odd(const std::vector<Ring>& rings, Vec2 p) {
+  bool in = false;
+  for (const Ring& r : rings) in = in != inside_ring(r, p);
+  return in;
+}
+
 }  // namespace trimwright::kernel

@@ -63,4 +63,11 @@ Mesh transformed(const Mesh& mesh, const Transform3& t);
 /// the vertex count exceeds 32-bit indices.
 Mesh merged(const Mesh& a, const Mesh& b);
 
+/// Whether p lies inside the ring (crossing-number test; a point on the boundary may go
+/// either way).
+bool inside_ring(const Ring& ring, Vec2 p);
+
+/// Whether p lies inside a set of rings under the even-odd rule.
+bool inside_even_odd(const std::vector<Ring>& rings, Vec2 p);
+
 }  // namespace trimwright::kernel

@@ -314,20 +314,6 @@ double ring_signed_area(const Ring& r) {
   return a / 2;
 }
 
-/// Even-odd point-in-ring test (crossing number).
-bool inside_ring(const Ring& r, Vec2 p) {
-  bool in = false;
-  const std::size_t n = r.points.size();
-  for (std::size_t i = 0, j = n - 1; i < n; j = i++) {
-    const Vec2& a = r.points[i];
-    const Vec2& b = r.points[j];
-    if ((a[1] > p[1]) != (b[1] > p[1]) &&
-        p[0] < (b[0] - a[0]) * (p[1] - a[1]) / (b[1] - a[1]) + a[0])
-      in = !in;
-  }
-  return in;
-}
-
 AreaMoments ring_moments(const Ring& r, Vec2 ref) {
   AreaMoments m;
   const std::size_t n = r.points.size();
