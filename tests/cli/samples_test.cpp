@@ -53,6 +53,22 @@ AdmeshReport admesh(const fs::path& stl) {
   return r;
 }
 
+// The part's first moment in its own frame (g·mm), from its STL read back independently plus the
+// reported inserts; checks the plastic and total masses against the report on the way.
+std::pair<double, double> first_moment_gmm(const StlMass& sm, const json& part) {
+  double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
+  CHECK(mass == Approx(part["plastic_mass_g"].get<double>()).epsilon(1e-4));
+  double mx = mass * sm.centroid_mm[0], my = mass * sm.centroid_mm[1], total = mass;
+  for (const auto& ins : part["inserts"]) {
+    double g = ins["mass_g"].get<double>();
+    mx += g * ins["position_mm"][0].get<double>();
+    my += g * ins["position_mm"][1].get<double>();
+    total += g;
+  }
+  CHECK(total == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+  return {mx, my};
+}
+
 // disc-pair samples: each disc's first moment from its STL as written (read back by the
 // independent reader) plus the inserts the report lists, turned so that its heavy mark (+x)
 // points at its setting, summed: the pair must give the correction within 0.5 % and 0.5°.
@@ -76,16 +92,7 @@ void check_disc_pair_sample(const fs::path& job, const json& rep, const fs::path
     fs::path stl = out / part["file"].get<std::string>();
     REQUIRE(fs::exists(stl));
     StlMass sm = stl_mass(slurp(stl));
-    double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
-    CHECK(mass == Approx(part["plastic_mass_g"].get<double>()).epsilon(1e-4));
-    double mx = mass * sm.centroid_mm[0], my = mass * sm.centroid_mm[1], total = mass;
-    for (const auto& ins : part["inserts"]) {
-      double g = ins["mass_g"].get<double>();
-      mx += g * ins["position_mm"][0].get<double>();
-      my += g * ins["position_mm"][1].get<double>();
-      total += g;
-    }
-    CHECK(total == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+    auto [mx, my] = first_moment_gmm(sm, part);
     if (!part["inserts"].empty()) {
       // Closed pockets: the print pauses at a layer above the floor.
       CHECK(part["pause_layer"].get<int>() > 1);
@@ -143,16 +150,7 @@ void check_clamp_weights_sample(const fs::path& job, const json& rep, const fs::
     fs::path stl = out / part["file"].get<std::string>();
     REQUIRE(fs::exists(stl));
     StlMass sm = stl_mass(slurp(stl));
-    double mass = sm.volume_mm3 * part["density_g_cm3"].get<double>() * 1e-3;
-    CHECK(mass == Approx(part["plastic_mass_g"].get<double>()).epsilon(1e-4));
-    double mx = mass * sm.centroid_mm[0], my = mass * sm.centroid_mm[1], total = mass;
-    for (const auto& ins : part["inserts"]) {
-      double g = ins["mass_g"].get<double>();
-      mx += g * ins["position_mm"][0].get<double>();
-      my += g * ins["position_mm"][1].get<double>();
-      total += g;
-    }
-    CHECK(total == Approx(part["mass_g"].get<double>()).epsilon(1e-4));
+    auto [mx, my] = first_moment_gmm(sm, part);
     // The weight sits over the rim's edge on +x of its own frame.
     CHECK(sm.centroid_mm[0] > 0);
     double u = std::hypot(mx, my);
